@@ -1,0 +1,11 @@
+# photolot_warnings: an interface target every photolot target links to, so warnings and
+# sanitizers are set in one place.
+add_library(photolot_warnings INTERFACE)
+target_compile_options(photolot_warnings INTERFACE
+  $<$<CXX_COMPILER_ID:GNU,Clang>:-Wall -Wextra -Wpedantic -Wshadow=local -Wno-unused-parameter>
+  $<$<BOOL:${PHOTOLOT_WERROR}>:-Werror>)
+if(PHOTOLOT_SANITIZE)
+  target_compile_options(photolot_warnings INTERFACE
+    -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=undefined)
+  target_link_options(photolot_warnings INTERFACE -fsanitize=address,undefined)
+endif()

@@ -1,0 +1,44 @@
+// Per-unit and whole-lot fits of the resistance-illuminance curve (Ceres Solver inside).
+// The model, the robust loss and the intervals are explained in docs/fitting.md.
+#pragma once
+
+#include <stop_token>
+#include <string>
+
+#include "photolot/fit_result.h"
+#include "photolot/lot.h"
+#include "photolot/progress.h"
+
+namespace photolot::fitting {
+
+enum class Loss : std::uint8_t { huber, cauchy, none };
+std::string_view to_string(Loss loss);
+
+struct FitOptions {
+  Loss loss = Loss::huber;
+  // The resistance meter's accuracy in percent of reading; the robust loss's scale is
+  // ln(1 + meter_accuracy_pct / 100) in ln R.
+  double meter_accuracy_pct = 1.0;
+  // A point is flagged as an outlier when |residual| > outlier_threshold x the loss scale
+  // and its robust weight is below 1.
+  double outlier_threshold = 3.0;
+  int min_levels = 3;             // distinct illuminance levels needed
+  double min_span_decades = 1.0;  // log10(E_max / E_min) needed
+  double confidence = 0.95;       // for the reported intervals (Student t, n - p dof)
+  int threads = 0;                // 0: all cores. Results do not depend on it.
+
+  std::string validate() const;   // empty when valid
+};
+
+UnitFit fit_unit(const Unit& unit, const FitOptions& options = {});
+
+// Fits every unit, in parallel. Deterministic whatever the thread count. On stop, units not
+// reached keep status solver_failed with message "stopped".
+LotFit fit_lot(const Lot& lot, const FitOptions& options = {}, const ProgressFn& progress = {},
+               std::stop_token stop = {});
+
+// The closed-form (ordinary least squares, non-robust) power-law fit in log space; the solver's
+// starting point and the benchmark's baseline.
+UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options = {});
+
+}  // namespace photolot::fitting

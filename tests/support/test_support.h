@@ -1,0 +1,19 @@
+// Test-support helpers shared by every test program: paths to the repository's files and a
+// scratch folder per test.
+#pragma once
+
+#include <filesystem>
+#include <string>
+
+namespace photolot::test {
+
+// A path inside the source tree, e.g. source_path("sample-data/demo-lot.csv").
+std::filesystem::path source_path(const std::string& relative);
+
+// A fresh, empty folder for the running test (removed and re-made on each call).
+std::filesystem::path scratch_dir();
+
+// Writes text to a file under scratch_dir() and returns its path.
+std::filesystem::path write_scratch_file(const std::string& name, const std::string& content);
+
+}  // namespace photolot::test
