@@ -7,6 +7,7 @@
 #include <string>
 
 #include "photolot/import.h"
+#include "photolot/synth.h"
 #include "photolot/units.h"
 #include "test_support.h"
 
@@ -428,6 +429,45 @@ TEST(CsvImport, IsDeterministic) {
   ASSERT_EQ(a.lot.diagnostics.size(), b.lot.diagnostics.size());
   for (std::size_t i = 0; i < a.lot.diagnostics.size(); ++i)
     EXPECT_EQ(a.lot.diagnostics[i].message, b.lot.diagnostics[i].message);
+}
+
+// The generator's logs (photolot/synth.h) come back as the lot they were written from, to the
+// six significant digits the writer keeps ({:.6g}: half a unit in the sixth digit is a relative
+// 5e-6), in both dialects.
+TEST(CsvImport, RoundTripsASyntheticLotInBothDialects) {
+  synth::LotSpec spec;
+  spec.seed = 11;
+  spec.units = 25;
+  spec.dark_readings = true;
+  spec.meter_max_ohm = 2e6;  // some low-light and dark readings go over range
+  spec.temp_span_c = 3;
+  const auto sim = synth::simulate(spec);
+  for (const auto dialect : {synth::Dialect::comma, synth::Dialect::semicolon}) {
+    const auto r = import_text(synth::to_csv(sim.lot, dialect));
+    ASSERT_TRUE(r.ok());
+    EXPECT_EQ(first_of(r.lot, Severity::error), nullptr);
+    ASSERT_EQ(r.lot.units.size(), sim.lot.units.size());
+    std::size_t censored = 0;
+    for (std::size_t u = 0; u < sim.lot.units.size(); ++u) {
+      const auto& want = sim.lot.units[u];
+      const auto& got = r.lot.units[u];
+      EXPECT_EQ(got.id, want.id);
+      ASSERT_EQ(got.readings.size(), want.readings.size()) << want.id;
+      for (std::size_t i = 0; i < want.readings.size(); ++i) {
+        const Reading& a = want.readings[i];
+        const Reading& b = got.readings[i];
+        EXPECT_NEAR(b.lux, a.lux, 5e-6 * a.lux);
+        EXPECT_NEAR(b.ohm, a.ohm, 5e-6 * a.ohm);
+        EXPECT_NEAR(b.temp_c, a.temp_c, 0.005 + 1e-9);  // written with two decimals
+        // A 0 lx row is a dark reading even when over range (its bound kept).
+        EXPECT_EQ(b.kind, a.lux == 0 ? ReadingKind::dark : a.kind);
+        censored += a.kind == ReadingKind::censored;
+      }
+    }
+    EXPECT_GT(censored, 0u);
+    EXPECT_EQ(r.lot.counts.censored, censored);
+    EXPECT_EQ(r.lot.counts.dark, spec.units);
+  }
 }
 
 // ---- files that cannot be read at all ----
