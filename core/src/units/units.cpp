@@ -98,17 +98,16 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
   if (pos < n && (s[pos] == '+' || s[pos] == '-')) negative = s[pos++] == '-';
   const std::size_t digits_start = pos;
   std::uint64_t mantissa = 0;
-  int digits = 0;  // accumulated into mantissa (leading zeros cost nothing)
+  int digits = 0;  // accumulated into mantissa
   bool overflow = false;
-  auto take = [&](char c) {
-    if (mantissa == 0 && c == '0') return;
+  auto take = [&](char c) {  // leading zeros count too: past 19 digits from_chars decides
+    overflow |= digits == 19;
     if (digits < 19) {
       mantissa = mantissa * 10 + static_cast<std::uint64_t>(c - '0');
       ++digits;
-    } else {
-      overflow = true;
     }
   };
+
   while (pos < n && is_digit(s[pos])) take(s[pos++]);
   const std::size_t int_digits = pos - digits_start;
   std::size_t frac_digits = 0;
