@@ -57,16 +57,16 @@ TEST(Units, DoesNotMistakeMilliohmSymbolForMegohm) {
 
 // IEC 60062, the resistance letter code: the multiplier letter stands for the decimal point.
 TEST(Units, ParsesIec60062LetterCodes) {
-  EXPECT_NEAR(*parse_resistance("R47"), 0.47, 1e-15);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4R7"), 4.7, 1e-15);     // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("470R"), 470, 1e-12);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4K7"), 4.7e3, 1e-9);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("47K3"), 47.3e3, 1e-9);  // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4M7"), 4.7e6, 1e-6);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("1M0"), 1.0e6, 1e-6);    // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("R47"), 0.47);      // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4R7"), 4.7);       // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("470R"), 470);      // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4K7"), 4.7e3);     // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("47K3"), 47.3e3);   // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4M7"), 4.7e6);     // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("1M0"), 1.0e6);     // IEC 60062 example
   EXPECT_NEAR(*parse_resistance("6L8"), 6.8e-3, 1e-15);  // IEC 60062 example (milliohm)
-  EXPECT_NEAR(*parse_resistance("15M0"), 15e6, 1e-6);    // trailing zero states precision
-  EXPECT_NEAR(*parse_resistance("K47"), 470, 1e-12);     // letter first: 0.47 kohm
+  EXPECT_DOUBLE_EQ(*parse_resistance("15M0"), 15e6);     // trailing zero states precision
+  EXPECT_DOUBLE_EQ(*parse_resistance("K47"), 470);       // letter first: 0.47 kohm
 }
 
 TEST(Units, AcceptsLowerCaseKAndATrailingToleranceLetter) {

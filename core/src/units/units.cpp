@@ -157,6 +157,32 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
   return d;
 }
 
+// The digits after an IEC 60062 multiplier letter: s[from...] are the fraction's digits, the
+// integer part is already read. 4K7 = (4 * 10 + 7) * 1e3 / 10: one rounding where it can.
+struct LetterCode {
+  double value = 0;
+  double half_step = 0;
+  std::size_t end = 0;
+};
+
+LetterCode letter_code(std::uint64_t integer, std::string_view s, std::size_t from, double mult) {
+  std::uint64_t digits = integer;
+  std::size_t p = from;
+  int places = 0;
+  while (p < s.size() && is_digit(s[p]) && places < 15) {
+    digits = digits * 10 + static_cast<std::uint64_t>(s[p] - '0');
+    ++places;
+    ++p;
+  }
+  while (p < s.size() && is_digit(s[p])) ++p;  // beyond double precision anyway
+  const double scale = kExactPowersOfTen[static_cast<std::size_t>(places)];
+  LetterCode code;
+  code.value = static_cast<double>(digits) * mult / scale;
+  code.half_step = 0.5 * mult / scale;
+  code.end = p;
+  return code;
+}
+
 // An SI prefix at the start of s: its multiplier and byte length.
 std::optional<std::pair<double, std::size_t>> scan_si_prefix(std::string_view s) {
   if (s.empty()) return std::nullopt;
@@ -263,16 +289,10 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
 
   if (const auto mult = letter_multiplier(t[0]); mult && t.size() > 1 && is_digit(t[1])) {
     // Letter first: "R47" = 0.47 ohm, "K47" = 470 ohm.
-    std::size_t p = 1;
-    double frac = 0, place = 0.1;
-    while (p < t.size() && is_digit(t[p])) {
-      frac += (t[p] - '0') * place;
-      place /= 10;
-      ++p;
-    }
-    v.value = frac * *mult;
-    v.half_step = 0.5 * place * 10 * *mult;
-    rest = t.substr(p);
+    const LetterCode code = letter_code(0, t, 1, *mult);
+    v.value = code.value;
+    v.half_step = code.half_step;
+    rest = t.substr(code.end);
     multiplier_seen = true;
   } else {
     const auto d = scan_decimal(t, decimal);
@@ -284,17 +304,11 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
     const auto letter = letter_multiplier(rest[0]);
     if (!d->point_or_exponent && letter && rest.size() > 1 && is_digit(rest[1])) {
       // Letter as the decimal point: "4K7", "1M0", "6L8", "47K3".
-      std::size_t p = 1;
-      double frac = 0, place = 0.1;
-      while (p < rest.size() && is_digit(rest[p])) {
-        frac += (rest[p] - '0') * place;
-        place /= 10;
-        ++p;
-      }
-      const double magnitude = std::abs(d->value) + frac;
-      v.value = (std::signbit(d->value) ? -magnitude : magnitude) * *letter;
-      v.half_step = 0.5 * place * 10 * *letter;
-      rest = rest.substr(p);
+      const LetterCode code =
+          letter_code(static_cast<std::uint64_t>(std::abs(d->value)), rest, 1, *letter);
+      v.value = std::signbit(d->value) ? -code.value : code.value;
+      v.half_step = code.half_step;
+      rest = rest.substr(code.end);
       multiplier_seen = true;
     } else {
       rest = skip_spaces(rest);
