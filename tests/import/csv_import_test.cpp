@@ -703,6 +703,9 @@ TEST(ImportOptions, ValidateNamesFieldValueAndRule) {
   o.lux_column = "0";
   EXPECT_EQ(o.validate(), "lux_column = '0' must be a column number from 1 or a header name");
   o = {};
+  o.temp_column = " ";
+  EXPECT_EQ(o.validate(), "temp_column = ' ' must name a column: a header text or a number from 1");
+  o = {};
   o.lux_column = "2";
   o.ohm_column = "2";
   EXPECT_EQ(o.validate(),

@@ -94,6 +94,9 @@ std::string ImportOptions::validate() const {
                                  {"ohm_column", ohm_column},
                                  {"temp_column", temp_column}};
   for (const auto& c : columns) {
+    if (!c.value.empty() && detail::trim(c.value).empty())
+      return fmt::format("{} = '{}' must name a column: a header text or a number from 1", c.name,
+                         c.value);
     if (!c.value.empty() && c.value.find_first_not_of("0123456789") == std::string::npos &&
         (c.value.size() > 6 || std::stoul(c.value) == 0))
       return fmt::format("{} = '{}' must be a column number from 1 or a header name", c.name,
