@@ -1,7 +1,8 @@
 // The terms of an extended fit, private to fitting/src/extended/. Each usable reading of a
 // unit becomes one residual term in ln R, scaled by its standard uncertainty:
 //   point (a normal reading under light):  r = (ln R - ln R_model) / sd
-//   bound (an over-range reading, R > B):   r = max(0, ln B - ln R_model) / sd   (hinge)
+//   bound (an over-range reading, R > B):   r = sqrt(-2 ln Phi((ln R_model - ln B) / sd)),
+//                                           a smooth hinge (the censored-normal likelihood)
 //   dark point / dark bound (0 lx):         the same with ln R_model = -ln G_dark
 // Temperature enters every term under light through ln(1 + tc(E) / 100 * (T - 25 degC)).
 #pragma once

@@ -36,6 +36,31 @@ T ln_model_at(ModelKind model, const Term& t, double dt_c, const T* theta, const
   return ln_r;
 }
 
+// The one-sided term of an over-range reading R > B, as a residual r with r^2 / 2 the negative
+// log-likelihood of a censored normal reading (docs/models.md):
+//   z = (ln R_model - ln B) / sd,   r^2 = -2 ln Phi(z)
+// A smooth hinge: about z^2 when the model falls well below the bound (like a point at the
+// bound), and zero when it lies well above (no pull at all). For z < -8 the asymptotic series
+// of Phi is used, Phi(z) ~ phi(z) / -z * (1 - 1/z^2 + 3/z^4), where erfc underflows; above 8
+// the cost is below 1e-15 and is taken as 0.
+template <typename T>
+T censored_residual(const T& z) {
+  using std::log, std::sqrt, std::erfc, std::log1p;
+  constexpr double kSqrt2 = 1.4142135623730951;
+  constexpr double kLn2Pi = 1.8378770664093453;
+  if (z > T(8.0)) return T(0.0);
+  T neg_ln_phi;
+  if (z < T(-8.0)) {
+    const T iz2 = T(1.0) / (z * z);
+    neg_ln_phi = 0.5 * z * z + 0.5 * kLn2Pi + log(-z) - log(T(1.0) - iz2 + 3.0 * iz2 * iz2);
+  } else if (z > T(0.0)) {
+    neg_ln_phi = -log1p(-0.5 * erfc(z / kSqrt2));
+  } else {
+    neg_ln_phi = -log(0.5 * erfc(-z / kSqrt2));
+  }
+  return sqrt(2.0 * neg_ln_phi);
+}
+
 struct TermCost {
   ModelKind model;
   Term term;
@@ -47,8 +72,8 @@ struct TermCost {
       if (!(arg > T(0.0))) return false;
     }
     const T diff = T(term.y) - ln_model_at(model, term, dt_c, theta, tc);
-    if (term.bound)  // hinge: only a model below the bound costs anything
-      residual[0] = diff > T(0.0) ? diff / term.sd : T(0.0);
+    if (term.bound)
+      residual[0] = censored_residual(-diff / term.sd);
     else
       residual[0] = diff / term.sd;
     return true;
