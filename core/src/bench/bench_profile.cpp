@@ -94,7 +94,7 @@ BenchProfileResult parse_bench_profile(std::string_view name, std::string_view t
   for (auto&& [key, node] : root) {
     if (key != "lux_pct" && key != "ohm_range") {
       result.error =
-          error_at(name, node.source(),
+          error_at(name, key.source(),
                    fmt::format("unknown key '{}' (expected lux_pct or ohm_range)", key.str()));
       return result;
     }
@@ -119,7 +119,7 @@ BenchProfileResult parse_bench_profile(std::string_view name, std::string_view t
       for (auto&& [key, node] : *t) {
         if (key != "max_ohm" && key != "pct" && key != "digits" && key != "resolution_ohm") {
           result.error =
-              error_at(name, node.source(),
+              error_at(name, key.source(),
                        fmt::format("unknown key '{}' in ohm_range (expected max_ohm, pct, digits, "
                                    "resolution_ohm)",
                                    key.str()));

@@ -524,11 +524,15 @@ JointResult fit_joint_temperature(const std::vector<const UnitData*>& data,
   problem.AddParameterBlock(out.tc.data(), 2);
   auto* ordering = new ceres::ParameterBlockOrdering;
   ordering->AddElementToGroup(out.tc.data(), 1);
-  out.theta.resize(data.size());
+  // One buffer for every unit's block, in unit order: Ceres orders the blocks it eliminates by
+  // address, so this keeps the arithmetic (and the result) the same from run to run.
+  std::vector<std::size_t> offset(data.size() + 1, 0);
+  for (std::size_t u = 0; u < data.size(); ++u) offset[u + 1] = offset[u] + fits[u]->theta.size();
+  std::vector<double> all(offset.back());
   for (std::size_t u = 0; u < data.size(); ++u) {
     const Candidate& c = *fits[u];
-    out.theta[u] = c.theta;
-    double* theta = out.theta[u].data();
+    std::copy(c.theta.begin(), c.theta.end(), all.begin() + static_cast<std::ptrdiff_t>(offset[u]));
+    double* theta = all.data() + offset[u];
     problem.AddParameterBlock(theta, static_cast<int>(c.theta.size()));
     ordering->AddElementToGroup(theta, 0);
     for (const Term& t : data[u]->terms) {
@@ -562,6 +566,10 @@ JointResult fit_joint_temperature(const std::vector<const UnitData*>& data,
   out.converged = summary.termination_type == ceres::CONVERGENCE;
   out.iterations = static_cast<int>(summary.iterations.size()) - 1;
   out.report = summary.BriefReport();
+  out.theta.resize(data.size());
+  for (std::size_t u = 0; u < data.size(); ++u)
+    out.theta[u].assign(all.begin() + static_cast<std::ptrdiff_t>(offset[u]),
+                        all.begin() + static_cast<std::ptrdiff_t>(offset[u + 1]));
 
   // Covariance of the shared block: the inverse of the sum over units of the Schur complements
   // S_u = H_ss - H_su H_uu^-1 H_us of each unit's information (its own parameters eliminated),
