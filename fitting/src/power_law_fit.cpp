@@ -11,6 +11,7 @@
 #include <cmath>
 
 #include "photolot/fitting/fit.h"
+#include "photolot/fitting/models.h"
 #include "unit_points.h"
 
 namespace photolot::fitting {
@@ -285,7 +286,11 @@ UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
 
 }  // namespace
 
-UnitFit fit_unit(const Unit& unit, const FitOptions& options) { return fit(unit, options, true); }
+UnitFit fit_unit(const Unit& unit, const FitOptions& options) {
+  // Over-range readings need one-sided terms, which only the extended fit has (models.h).
+  if (needs_extended_fit(unit)) return fit_unit_extended(unit, options, power_law_with_bounds());
+  return fit(unit, options, true);
+}
 
 UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options) {
   return fit(unit, options, false);

@@ -62,6 +62,15 @@ TempSetting fixed_setting(double tc10, double slope) {
 // identifiable ("spec" or "lot").
 UnitFit fit_unit_labelled(const Unit& unit, const FitOptions& options,
                           const ExtendedFitOptions& ext, std::string_view label) {
+  std::string invalid = options.validate();
+  if (invalid.empty()) invalid = ext.validate();
+  if (!invalid.empty()) {
+    UnitFit f;
+    f.id = unit.id;
+    f.status = FitStatus::solver_failed;
+    f.message = "not fitted: invalid fit options: " + invalid;
+    return f;
+  }
   UnitData data = extended::collect(unit, ext);
   const TempSetting fallback =
       fixed_setting(ext.spec_tc10_pct_per_c, ext.spec_tc_slope_pct_per_c_per_decade);

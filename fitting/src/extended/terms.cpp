@@ -62,6 +62,13 @@ bool needs_extended_fit(const Unit& unit) {
                      [](const Reading& r) { return r.kind == ReadingKind::censored && r.lux > 0; });
 }
 
+ExtendedFitOptions power_law_with_bounds() {
+  ExtendedFitOptions e;
+  e.model = ModelChoice::power_law;
+  e.temperature = TemperatureMode::off;
+  return e;
+}
+
 }  // namespace photolot::fitting
 
 namespace photolot::fitting::extended {

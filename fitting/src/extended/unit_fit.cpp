@@ -9,6 +9,7 @@
 #include <cmath>
 #include <memory>
 
+#include "../unit_points.h"
 #include "terms.h"
 
 namespace photolot::fitting::extended {
@@ -352,42 +353,11 @@ std::vector<double> local_gammas(const UnitData& data, const Candidate* c, doubl
 UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
                       const FitOptions& options, const ExtendedFitOptions& ext,
                       Candidate* chosen_out) {
-  UnitFit f;
-  f.id = unit.id;
-  f.points = data.points;
-  f.levels = data.levels;
-  f.censored_points = data.censored;
-  f.dark_readings = data.dark;
-  f.dark_ohm = data.dark_ohm;
-  f.dark_censored = data.dark_censored;
-  if (data.censored > 0) f.flags.emplace_back("censored");
-  if (data.dark > 0) f.flags.emplace_back("dark");
-  if (data.skipped > 0) f.flags.emplace_back("skipped-points");
-
-  const double span = data.points > 0 ? std::log10(data.lux_max / data.lux_min) : 0.0;
-  const int need_levels = std::max(options.min_levels, 2);
-  if (data.points == 0) {
-    f.status = FitStatus::no_valid_points;
-    f.message = fmt::format(
-        "not fitted: none of its {} readings is a normal reading with lux > 0 and a finite "
-        "resistance above 0 ({} over range, {} dark, {} unusable)",
-        unit.readings.size(), data.censored, data.dark, data.skipped);
-    return f;
-  }
-  if (data.levels < need_levels) {
-    f.status = FitStatus::too_few_levels;
-    f.message = fmt::format("not fitted: {} distinct illuminance level{}, {} needed", data.levels,
-                            data.levels == 1 ? "" : "s", need_levels);
-    return f;
-  }
-  if (span < options.min_span_decades) {
-    f.status = FitStatus::span_too_small;
-    f.message = fmt::format(
-        "not fitted: the levels span {:.2f} decades ({:g} to {:g} lx), {:g} "
-        "needed",
-        span, data.lux_min, data.lux_max, options.min_span_decades);
-    return f;
-  }
+  // Counts, flags and the can-it-be-fitted checks are the plain fit's (unit_points.h), so a
+  // unit gets the same status and message whichever fit runs.
+  const detail::UnitPoints pts = detail::collect_points(unit);
+  UnitFit f = detail::start_unit_fit(unit, pts, options, 2);
+  if (!f.ok()) return f;
 
   // The dark model needs a fourth level to be told from the line, and dof for its AICc.
   const bool try_pl = ext.model != ModelChoice::dark_conductance;
@@ -448,12 +418,10 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
   if (f.curve.covariance.size() == p * p) {
     f.ln_r10_sd = f.curve.ln_ohm_sd(kReferenceLux);
     f.gamma_sd = std::sqrt(std::max(0.0, f.curve.covariance[1 * p + 1]));
+    const OhmInterval r10 = interval_at(f, kReferenceLux, options.confidence);
+    f.r10_ci95_ohm = {r10.lo_ohm, r10.hi_ohm};
     const double t = t_quantile(options.confidence, f.dof);
-    if (std::isfinite(t)) {
-      f.r10_ci95_ohm = {f.r10_ohm * std::exp(-t * f.ln_r10_sd),
-                        f.r10_ohm * std::exp(t * f.ln_r10_sd)};
-      f.gamma_ci95 = {f.gamma - t * f.gamma_sd, f.gamma + t * f.gamma_sd};
-    }
+    if (std::isfinite(t)) f.gamma_ci95 = {f.gamma - t * f.gamma_sd, f.gamma + t * f.gamma_sd};
   }
   if (c.model == ModelKind::dark_conductance) {
     f.dark_conductance_s = f.curve.params[2];
@@ -495,7 +463,8 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
         "{} (as asked{})", to_string(c.model),
         try_dc || ext.model == ModelChoice::power_law ? "" : "; dark conductance needs 4 levels");
   f.message = fmt::format("fitted {}; {} points on {} levels", choice, data.points, data.levels);
-  if (bounds_used > 0) f.message += fmt::format(", {} over-range bounds", bounds_used);
+  if (bounds_used > 0)
+    f.message += fmt::format(", {} over-range bound{}", bounds_used, bounds_used == 1 ? "" : "s");
   if (data.censored - bounds_used > 0)
     f.message += fmt::format(", {} over-range readings not used", data.censored - bounds_used);
   return f;

@@ -73,5 +73,8 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options = {},
 // True when a unit has readings the fast power-law fit cannot use as they are (over-range
 // readings under light): fit_unit hands such units to fit_unit_extended so none is dropped.
 bool needs_extended_fit(const Unit& unit);
+// The options fit_unit uses for such units: the power law, over-range readings as one-sided
+// terms, no temperature term, no bench profile.
+ExtendedFitOptions power_law_with_bounds();
 
 }  // namespace photolot::fitting
