@@ -252,13 +252,7 @@ bool solve(const detail::UnitPoints& pts, Loss loss, double scale, std::array<do
 
 UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
   const std::string invalid = options.validate();
-  if (!invalid.empty()) {
-    UnitFit f;
-    f.id = unit.id;
-    f.status = FitStatus::solver_failed;
-    f.message = "not fitted: invalid fit options: " + invalid;
-    return f;
-  }
+  if (!invalid.empty()) return detail::invalid_options_fit(unit, invalid);
   const detail::UnitPoints pts = detail::collect_points(unit);
   UnitFit f = detail::start_unit_fit(unit, pts, options, kParameters);
   if (!f.ok()) return f;

@@ -3,11 +3,11 @@
 #include <fmt/format.h>
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
-#include <thread>
 #include <vector>
 
+#include "../lot_runner.h"
+#include "../unit_points.h"
 #include "photolot/fitting/models.h"
 #include "terms.h"
 
@@ -17,31 +17,6 @@ namespace {
 using extended::Candidate;
 using extended::TempSetting;
 using extended::UnitData;
-
-// Runs job(i) for i in [0, n) on up to `threads` workers; each result lands in its own slot, so
-// the outcome does not depend on the thread count or on scheduling.
-template <typename Job>
-void parallel_for(std::size_t n, int threads, const ProgressFn& progress, std::size_t done0,
-                  std::size_t total, std::stop_token stop, Job job) {
-  std::size_t workers = threads > 0 ? static_cast<std::size_t>(threads)
-                                    : std::max(1u, std::thread::hardware_concurrency());
-  workers = std::min(workers, std::max<std::size_t>(n, 1));
-  std::atomic<std::size_t> next{0}, done{0};
-  auto run = [&] {
-    for (std::size_t i; (i = next.fetch_add(1)) < n;) {
-      if (stop.stop_requested()) return;
-      job(i);
-      const std::size_t d = done.fetch_add(1) + 1;
-      if (progress) progress(done0 + d, total);
-    }
-  };
-  if (workers <= 1) {
-    run();
-    return;
-  }
-  std::vector<std::jthread> pool;
-  for (std::size_t w = 0; w < workers; ++w) pool.emplace_back(run);
-}
 
 std::string fmt_tc(double tc10, double slope) {
   return slope == 0 ? fmt::format("{:.4g} %/degC at 10 lx", tc10)
@@ -64,13 +39,7 @@ UnitFit fit_unit_labelled(const Unit& unit, const FitOptions& options,
                           const ExtendedFitOptions& ext, std::string_view label) {
   std::string invalid = options.validate();
   if (invalid.empty()) invalid = ext.validate();
-  if (!invalid.empty()) {
-    UnitFit f;
-    f.id = unit.id;
-    f.status = FitStatus::solver_failed;
-    f.message = "not fitted: invalid fit options: " + invalid;
-    return f;
-  }
+  if (!invalid.empty()) return detail::invalid_options_fit(unit, invalid);
   UnitData data = extended::collect(unit, ext);
   const TempSetting fallback =
       fixed_setting(ext.spec_tc10_pct_per_c, ext.spec_tc_slope_pct_per_c_per_decade);
@@ -150,14 +119,8 @@ UnitFit fit_unit_extended(const Unit& unit, const FitOptions& options,
 
 LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const ExtendedFitOptions& ext,
                         const ProgressFn& progress, std::stop_token stop) {
-  LotFit out;
+  LotFit out = detail::start_lot_fit(lot);
   const std::size_t n = lot.units.size();
-  out.units.resize(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    out.units[i].id = lot.units[i].id;
-    out.units[i].status = FitStatus::solver_failed;
-    out.units[i].message = "stopped";
-  }
   std::string invalid = options.validate();
   if (invalid.empty()) invalid = ext.validate();
   if (!invalid.empty()) {
@@ -190,9 +153,10 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
   };
   auto run_all = [&](const ExtendedFitOptions& e, std::string_view label, std::size_t done0,
                      std::size_t total) {
-    parallel_for(n, options.threads, progress, done0, total, stop, [&](std::size_t i) {
-      out.units[i] = fit_unit_labelled(lot.units[i], options, e, label);
-    });
+    detail::for_each_index(
+        n, options.threads, progress, stop,
+        [&](std::size_t i) { out.units[i] = fit_unit_labelled(lot.units[i], options, e, label); },
+        done0, total);
   };
 
   if (ext.temperature == TemperatureMode::off) {
@@ -220,11 +184,15 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
   std::vector<UnitData> data(n);
   std::vector<Candidate> first(n);
   std::vector<char> fitted(n, 0);
-  parallel_for(n, options.threads, progress, 0, 2 * n, stop, [&](std::size_t i) {
-    data[i] = extended::collect(lot.units[i], ext);
-    fitted[i] =
-        extended::fit_unit_with(lot.units[i], data[i], TempSetting{}, options, ext, &first[i]).ok();
-  });
+  detail::for_each_index(
+      n, options.threads, progress, stop,
+      [&](std::size_t i) {
+        data[i] = extended::collect(lot.units[i], ext);
+        fitted[i] =
+            extended::fit_unit_with(lot.units[i], data[i], TempSetting{}, options, ext, &first[i])
+                .ok();
+      },
+      0, 2 * n);
   if (stop.stop_requested()) return out;
   std::vector<const UnitData*> jd;
   std::vector<const Candidate*> jc;

@@ -122,6 +122,32 @@ std::unique_ptr<ceres::LossFunction> make_loss(Loss loss) {
   return nullptr;
 }
 
+// One term's residual block (autodiff), added to the problem; the problem owns the cost.
+ceres::CostFunction* add_term(ceres::Problem& problem, ModelKind model, const Term& t, double dt_c,
+                              ceres::LossFunction* loss, double* theta, double* tc) {
+  auto* functor = new TermCost{model, t, dt_c};
+  ceres::CostFunction* cost = model == ModelKind::power_law
+                                  ? static_cast<ceres::CostFunction*>(
+                                        new ceres::AutoDiffCostFunction<TermCost, 1, 2, 2>(functor))
+                                  : new ceres::AutoDiffCostFunction<TermCost, 1, 3, 2>(functor);
+  problem.AddResidualBlock(cost, loss, theta, tc);
+  return cost;
+}
+
+// Levenberg-Marquardt on one thread (the lot is parallel over units), silent, with `tol` for
+// the function and gradient tests and 100 x tol for the parameter test.
+ceres::Solver::Options solver_options(ceres::LinearSolverType linear_solver, double tol) {
+  ceres::Solver::Options so;
+  so.linear_solver_type = linear_solver;
+  so.max_num_iterations = 200;
+  so.function_tolerance = tol;
+  so.gradient_tolerance = tol;
+  so.parameter_tolerance = 100 * tol;
+  so.num_threads = 1;
+  so.logging_type = ceres::SILENT;
+  return so;
+}
+
 bool uses_term(ModelKind model, const Term& t) {
   return !(t.dark && model == ModelKind::power_law);
 }
@@ -145,14 +171,8 @@ Candidate solve_once(const UnitData& data, ModelKind model, const TempSetting& t
   for (std::size_t i = 0; i < data.terms.size(); ++i) {
     const Term& t = data.terms[i];
     if (!uses_term(model, t)) continue;
-    auto* functor = new TermCost{model, t, term_dt(t, temp)};
-    ceres::CostFunction* cost =
-        model == ModelKind::power_law
-            ? static_cast<ceres::CostFunction*>(
-                  new ceres::AutoDiffCostFunction<TermCost, 1, 2, 2>(functor))
-            : new ceres::AutoDiffCostFunction<TermCost, 1, 3, 2>(functor);
-    costs[i] = cost;
-    problem.AddResidualBlock(cost, loss.get(), c.theta.data(), c.tc.data());
+    costs[i] =
+        add_term(problem, model, t, term_dt(t, temp), loss.get(), c.theta.data(), c.tc.data());
   }
   if (model == ModelKind::dark_conductance) {
     c.theta[2] = std::clamp(c.theta[2], kLnGDarkMin, kLnGDarkMax);
@@ -167,14 +187,7 @@ Candidate solve_once(const UnitData& data, ModelKind model, const TempSetting& t
     problem.SetManifold(c.tc.data(), new ceres::SubsetManifold(2, {0}));
   }
 
-  ceres::Solver::Options so;
-  so.linear_solver_type = ceres::DENSE_QR;
-  so.max_num_iterations = 200;
-  so.function_tolerance = 1e-14;
-  so.gradient_tolerance = 1e-14;
-  so.parameter_tolerance = 1e-12;
-  so.num_threads = 1;
-  so.logging_type = ceres::SILENT;
+  const ceres::Solver::Options so = solver_options(ceres::DENSE_QR, 1e-14);
   if (solve) {
     ceres::Solver::Summary summary;
     ceres::Solve(so, &problem, &summary);
@@ -506,13 +519,7 @@ JointResult fit_joint_temperature(const std::vector<const UnitData*>& data,
     ordering->AddElementToGroup(theta, 0);
     for (const Term& t : data[u]->terms) {
       if (!uses_term(c.model, t)) continue;
-      auto* functor = new TermCost{c.model, t, term_dt(t, temp)};
-      ceres::CostFunction* cost =
-          c.model == ModelKind::power_law
-              ? static_cast<ceres::CostFunction*>(
-                    new ceres::AutoDiffCostFunction<TermCost, 1, 2, 2>(functor))
-              : new ceres::AutoDiffCostFunction<TermCost, 1, 3, 2>(functor);
-      problem.AddResidualBlock(cost, loss.get(), theta, out.tc.data());
+      add_term(problem, c.model, t, term_dt(t, temp), loss.get(), theta, out.tc.data());
     }
     if (c.model == ModelKind::dark_conductance) {
       problem.SetParameterLowerBound(theta, 2, kLnGDarkMin);
@@ -521,15 +528,9 @@ JointResult fit_joint_temperature(const std::vector<const UnitData*>& data,
   }
   if (!temp.free_slope) problem.SetManifold(out.tc.data(), new ceres::SubsetManifold(2, {1}));
 
-  ceres::Solver::Options so;
-  so.linear_solver_type = ceres::DENSE_SCHUR;  // eliminate the units, solve the shared block
+  // Dense Schur: the units' blocks are eliminated, the shared block solved.
+  ceres::Solver::Options so = solver_options(ceres::DENSE_SCHUR, 1e-12);
   so.linear_solver_ordering.reset(ordering);
-  so.max_num_iterations = 200;
-  so.function_tolerance = 1e-12;
-  so.gradient_tolerance = 1e-12;
-  so.parameter_tolerance = 1e-10;
-  so.num_threads = 1;
-  so.logging_type = ceres::SILENT;
   ceres::Solver::Summary summary;
   ceres::Solve(so, &problem, &summary);
   out.converged = summary.termination_type == ceres::CONVERGENCE;
