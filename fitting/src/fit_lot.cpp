@@ -20,8 +20,9 @@ std::string describe(const FitOptions& o) {
   switch (o.loss) {
     case Loss::huber:
     case Loss::cauchy:
-      loss = fmt::format("{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
-                         to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
+      loss = fmt::format(
+          "{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
+          to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
       break;
     case Loss::none:
       loss = "ordinary least squares (no robust loss)";
