@@ -15,8 +15,9 @@ std::string describe(const FitOptions& o) {
   switch (o.loss) {
     case Loss::huber:
     case Loss::cauchy:
-      loss = fmt::format("{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
-                         to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
+      loss = fmt::format(
+          "{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
+          to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
       break;
     case Loss::none:
       loss = "ordinary least squares (no robust loss)";
@@ -24,9 +25,12 @@ std::string describe(const FitOptions& o) {
   }
   return fmt::format(
       "power law ln R = ln R10 - gamma ln(E / 10 lx) per unit; {}; covariance {}; {:g} % "
-      "intervals from Student t on n - 2 dof",
+      "intervals from Student t on n - 2 dof{}",
       loss, o.loss == Loss::none ? "s^2 (X'X)^-1" : "Huber's H1 estimate from psi",
-      100.0 * o.confidence);
+      100.0 * o.confidence,
+      o.over_range_bounds ? "; units with over-range readings: extended fit, the readings as "
+                            "one-sided terms (docs/models.md)"
+                          : "");
 }
 
 LotFit fit_lot(const Lot& lot, const FitOptions& options, const ProgressFn& progress,

@@ -37,9 +37,10 @@ void for_each_index(std::size_t count, int threads_option, const ProgressFn& pro
   std::atomic<std::size_t> done{0};
   std::mutex progress_mutex;
   using Clock = std::chrono::steady_clock;
-  std::atomic<Clock::rep> last_report{Clock::now().time_since_epoch().count()};
+  // Reports at most every 20 ms, the first one after the first unit.
   const Clock::rep report_every =
       std::chrono::duration_cast<Clock::duration>(std::chrono::milliseconds(20)).count();
+  std::atomic<Clock::rep> last_report{Clock::now().time_since_epoch().count() - report_every};
 
   auto work = [&] {
     for (;;) {

@@ -66,7 +66,7 @@ TEST(ExtendedLotFit, RecoversDarkConductanceAndTemperatureFromASyntheticLot) {
   EXPECT_NEAR(g_ratio[g_ratio.size() / 2], 1.0, 0.1);  // median G_dark within 10 %
 }
 
-TEST(PlainFit, HandsUnitsWithOverRangeReadingsToTheExtendedFit) {
+TEST(PlainFit, HandsUnitsWithOverRangeReadingsToTheExtendedFitWhenAsked) {
   auto spec = spec_with_everything();
   spec.dark_conductance_s = 0;
   spec.temp_span_c = 0;
@@ -77,13 +77,18 @@ TEST(PlainFit, HandsUnitsWithOverRangeReadingsToTheExtendedFit) {
   for (const auto& unit : sim.lot.units) {
     if (!photolot::fitting::needs_extended_fit(unit)) continue;
     ++handed;
-    const auto plain = photolot::fitting::fit_unit(unit);
+    photolot::fitting::FitOptions o;
+    o.over_range_bounds = true;
+    const auto plain = photolot::fitting::fit_unit(unit, o);
     const auto ext =
         photolot::fitting::fit_unit_extended(unit, {}, photolot::fitting::power_law_with_bounds());
     ASSERT_TRUE(plain.ok()) << plain.message;
     EXPECT_EQ(plain.gamma, ext.gamma);
     EXPECT_EQ(plain.message, ext.message);
     EXPECT_NE(plain.message.find("over-range bound"), std::string::npos) << plain.message;
+    // Not asked: the plain fit leaves the over-range readings out.
+    const auto dropped = photolot::fitting::fit_unit(unit);
+    EXPECT_EQ(dropped.message.find("over-range bound"), std::string::npos) << dropped.message;
   }
   EXPECT_GT(handed, 0);
 }
