@@ -342,6 +342,7 @@ void add_pairs(Content& c, const PairsSection& p) {
   }
   c.pairs_table.headers = {"Pair", "Unit A", "Unit B", "Error %", "Picked"};
   c.pairs_table.widths = {0.7, 1.6, 1.6, 1.0, 1.0};
+  c.pairs_table.width_fraction = 0.6;
   c.pairs_table.right_aligned = {true, false, false, true, false};
   for (const PairRow& r : p.rows)
     c.pairs_table.rows.push_back(

@@ -22,6 +22,7 @@ struct Table {
   std::vector<std::string> headers;
   std::vector<double> widths;       // relative column widths
   std::vector<bool> right_aligned;  // per column
+  double width_fraction = 1.0;      // of the text width, from the left margin
   std::vector<std::vector<std::string>> rows;
 };
 

@@ -208,7 +208,8 @@ class Flow {
     for (double w : t.widths) total += w;
     std::vector<double> x(t.widths.size() + 1, left_);
     for (std::size_t i = 0; i < t.widths.size(); ++i)
-      x[i + 1] = x[i] + text_width() * t.widths[i] / total;
+      x[i + 1] = x[i] + text_width() * t.width_fraction * t.widths[i] / total;
+    const double table_right = x.back();
     const QFont hf = font(8, true);
     const QFont cf = font(8);
     const double pad = mm(1.2);
@@ -230,7 +231,7 @@ class Flow {
       const double h = row_height(t.headers, hf);
       draw_row(t.headers, hf, h);
       y_ += h;
-      line(left_, y_, right_, y_, 0.35, Qt::black);
+      line(left_, y_, table_right, y_, 0.35, Qt::black);
     };
     ensure(row_height(t.headers, hf) + (t.rows.empty() ? 0 : row_height(t.rows.front(), cf)));
     header();
@@ -244,7 +245,7 @@ class Flow {
       }
       draw_row(r, cf, h);
       y_ += h;
-      line(left_, y_, right_, y_, 0.15, kRule);
+      line(left_, y_, table_right, y_, 0.15, kRule);
     }
     y_ += mm(2);
   }
@@ -307,7 +308,7 @@ class Flow {
       line(x, y_ + row - mm(4), x + col, y_ + row - mm(4), 0.25, Qt::black);
       text(QRectF(x, y_ + row - mm(3.6), col, mm(4)), qs(first[i]), label, Qt::AlignLeft, kLabel);
     }
-    y_ += row - mm(2);
+    y_ += row + mm(3);
     // Decision boxes
     double x = left_;
     const double box = mm(3.8);
