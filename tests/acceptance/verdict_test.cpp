@@ -1,6 +1,8 @@
 // Per-unit verdicts against a spec: each limit broken is a reason with value, limit and excess.
 #include <gtest/gtest.h>
 
+#include <nlohmann/json.hpp>
+
 #include "photolot/acceptance.h"
 
 using photolot::Characteristic;
@@ -109,4 +111,17 @@ TEST(Verdict, MissingDarkReadingIsNotedWhenADarkLimitExists) {
   EXPECT_EQ(v.verdict, Verdict::conforming);
   ASSERT_EQ(v.notes.size(), 1u);
   EXPECT_NE(v.notes[0].find("no dark reading"), std::string::npos);
+}
+
+TEST(Verdict, JsonListsReasonsAndNotes) {
+  auto u = unit(24.1e3, 0.75);
+  u.dark_ohm.clear();
+  u.dark_censored.clear();
+  const auto j = photolot::verdict_json(judge_unit(u, demo_spec()));
+  EXPECT_EQ(j["verdict"], "nonconforming");
+  ASSERT_EQ(j["reasons"].size(), 1u);
+  EXPECT_EQ(j["reasons"][0]["characteristic"], "r10");
+  EXPECT_EQ(j["reasons"][0]["limit"], "max");
+  EXPECT_DOUBLE_EQ(j["reasons"][0]["limit_value"].get<double>(), 23e3);
+  EXPECT_EQ(j["notes"].size(), 1u);  // no dark reading
 }

@@ -9,6 +9,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <nlohmann/json.hpp>
 #include <numbers>
 #include <random>
 #include <vector>
@@ -184,4 +185,29 @@ TEST(LotStatistics, SummarisesLnR10AndFlagsTheOutlierUnit) {
   EXPECT_NEAR(st.r10_capability->ppk, std::min(std::log(25e3) - m, m - std::log(15e3)) / (3 * s),
               1e-12);
   EXPECT_TRUE(st.gamma_capability.has_value());
+}
+
+TEST(LotStatisticsJson, ReportsR10OnTheGeometricScaleAndGammaAsIs) {
+  LotFit fit;
+  const double r10s[] = {18e3, 20e3, 22e3, 19e3, 21e3};
+  const double gammas[] = {0.74, 0.75, 0.76, 0.73, 0.77};
+  for (int i = 0; i < 5; ++i)
+    fit.units.push_back(fitted(std::string("U").append(std::to_string(i)), r10s[i], gammas[i]));
+  photolot::StatisticsOptions options;
+  options.exact_tolerance_factor = true;
+  const auto st = photolot::lot_statistics(fit, options);
+  const auto j = photolot::lot_statistics_json(st);
+  // Geometric mean = exp(mean ln R10) = (prod R10)^(1/n), by the definition.
+  double prod = 1;
+  for (double r : r10s) prod *= r;
+  EXPECT_NEAR(j["r10_ohm"]["mean"].get<double>(), std::pow(prod, 1.0 / 5), 1e-6);
+  EXPECT_NEAR(j["r10_ohm"]["median"].get<double>(), 20e3, 1e-6);  // middle of five values
+  EXPECT_NEAR(j["r10_ohm"]["spread_factor"].get<double>(), std::exp(st.ln_r10.sd), 1e-12);
+  EXPECT_NEAR(j["gamma"]["median"].get<double>(), 0.75, 1e-12);
+  EXPECT_TRUE(j["gamma"]["percentiles"].contains("p1"));
+  EXPECT_TRUE(j["gamma"]["percentiles"].contains("p99"));
+  EXPECT_EQ(j["tolerance_method"], "exact");
+  EXPECT_NEAR(st.gamma.tolerance_factor, photolot::tolerance_factor_exact(5, 0.99, 0.95), 1e-12);
+  EXPECT_EQ(j["r10_ohm"]["tolerance_interval"].size(), 2u);
+  EXPECT_FALSE(j["r10_ohm"].contains("capability"));  // no spec, no limits
 }
