@@ -4,11 +4,10 @@
 #pragma once
 
 #include <cstddef>
+#include <nlohmann/json_fwd.hpp>
 #include <optional>
 #include <string>
 #include <vector>
-
-#include <nlohmann/json_fwd.hpp>
 
 #include "photolot/fit_result.h"
 #include "photolot/spec.h"
@@ -24,8 +23,8 @@ std::string_view to_string(Verdict verdict);  // "conforming", "nonconforming"
 // One limit a unit breaks (or, for Characteristic::fit, why it could not be judged).
 struct Reason {
   Characteristic characteristic = Characteristic::r10;
-  std::string limit;        // "min", "max", or "fit" for an unfitted unit
-  double measured = kNaN;   // in the characteristic's unit (ohm for R10 and dark)
+  std::string limit;       // "min", "max", or "fit" for an unfitted unit
+  double measured = kNaN;  // in the characteristic's unit (ohm for R10 and dark)
   double limit_value = kNaN;
   double excess_pct = kNaN;  // |measured - limit| / limit x 100
   std::string text;          // "R10 24.1 kΩ above max 23 kΩ by 4.8 %"
@@ -55,11 +54,11 @@ struct SamplingPlan {
   std::size_t lot_size = 0;
   InspectionLevel level = InspectionLevel::level_ii;
   double aql_pct = 0;
-  char code_letter = 0;        // from Table I
-  char plan_letter = 0;        // after following Table II-A's arrows
-  std::size_t sample_size = 0; // of the plan letter
-  int accept_number = 0;       // Ac
-  int reject_number = 1;       // Re = Ac + 1
+  char code_letter = 0;          // from Table I
+  char plan_letter = 0;          // after following Table II-A's arrows
+  std::size_t sample_size = 0;   // of the plan letter
+  int accept_number = 0;         // Ac
+  int reject_number = 1;         // Re = Ac + 1
   bool full_inspection = false;  // sample_size >= lot_size: inspect every unit
   std::string description;       // one sentence: how the plan was arrived at
 };

@@ -9,12 +9,11 @@
 
 #include <cmath>
 #include <cstdint>
+#include <nlohmann/json_fwd.hpp>
 #include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
-
-#include <nlohmann/json_fwd.hpp>
 
 #include "photolot/lot.h"
 
@@ -47,18 +46,18 @@ struct TestConditions {
 struct Inspection {
   InspectionMode mode = InspectionMode::sampling;
   InspectionLevel level = InspectionLevel::level_ii;
-  double aql_pct = 1.0;                  // acceptance quality limit, percent nonconforming
-  std::optional<std::size_t> lot_size;   // units in the lot, when known
+  double aql_pct = 1.0;                 // acceptance quality limit, percent nonconforming
+  std::optional<std::size_t> lot_size;  // units in the lot, when known
 };
 
 struct Spec {
   std::string part_number;
   std::string description;
 
-  Limits r10_ohm;                        // resistance at the reference illuminance, ohm
-  Limits gamma;                          // the fitted exponent
-  double dark_min_ohm = kNaN;            // minimum dark resistance, ohm (NaN: no limit)
-  double max_rms_log_residual = kNaN;    // maximum RMS of ln residuals of a unit's fit
+  Limits r10_ohm;                      // resistance at the reference illuminance, ohm
+  Limits gamma;                        // the fitted exponent
+  double dark_min_ohm = kNaN;          // minimum dark resistance, ohm (NaN: no limit)
+  double max_rms_log_residual = kNaN;  // maximum RMS of ln residuals of a unit's fit
 
   TestConditions conditions;
   Inspection inspection;
@@ -86,7 +85,7 @@ struct SpecError {
 std::string to_string(const SpecError& error);  // "file:line:column: message"
 
 struct SpecLoadResult {
-  std::optional<Spec> spec;       // set only when errors is empty
+  std::optional<Spec> spec;  // set only when errors is empty
   std::vector<SpecError> errors;
   bool ok() const { return spec.has_value() && errors.empty(); }
 };

@@ -9,12 +9,11 @@
 
 #include <array>
 #include <cstddef>
+#include <nlohmann/json_fwd.hpp>
 #include <optional>
 #include <span>
 #include <string>
 #include <vector>
-
-#include <nlohmann/json_fwd.hpp>
 
 #include "photolot/fit_result.h"
 #include "photolot/spec.h"
@@ -29,7 +28,7 @@ struct StatisticsOptions {
   double confidence = 0.95;  // confidence that it does
   // Howe's approximation (false) or the exact two-sided factor by numerical integration (true).
   bool exact_tolerance_factor = false;
-  double outlier_z = 3.5;    // |modified z| above this flags a unit (Iglewicz and Hoaglin)
+  double outlier_z = 3.5;  // |modified z| above this flags a unit (Iglewicz and Hoaglin)
 
   std::string validate() const;  // empty when valid
 };
@@ -39,14 +38,14 @@ struct Summary {
   std::size_t n = 0;
   double mean = kNaN;
   double median = kNaN;
-  double sd = kNaN;         // sample standard deviation (n - 1)
+  double sd = kNaN;  // sample standard deviation (n - 1)
   double min = kNaN;
   double max = kNaN;
   std::array<double, 5> percentiles{kNaN, kNaN, kNaN, kNaN, kNaN};  // at kPercentileLevels
-  double tolerance_factor = kNaN;                  // k2
-  std::array<double, 2> tolerance_interval{kNaN, kNaN};  // mean -+ k2 sd
-  double mean_fit_variance = kNaN;      // mean of the units' squared standard errors
-  double sd_without_fit_noise = kNaN;   // sqrt(max(0, sd^2 - mean_fit_variance))
+  double tolerance_factor = kNaN;                                   // k2
+  std::array<double, 2> tolerance_interval{kNaN, kNaN};             // mean -+ k2 sd
+  double mean_fit_variance = kNaN;     // mean of the units' squared standard errors
+  double sd_without_fit_noise = kNaN;  // sqrt(max(0, sd^2 - mean_fit_variance))
 };
 
 // Process performance against limits on one characteristic (on ln R10 for R10). NaN where a
