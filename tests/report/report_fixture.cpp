@@ -74,7 +74,6 @@ JudgedLot make_judged_lot(std::size_t units, double r10_min_ohm, double r10_max_
   j.fit.method = "power law on ln R, Huber loss (scale 1 % of reading), 95 % Student t intervals";
   j.fit.temperature.source = "none";
 
-  std::vector<double> ln_r10, gamma;
   for (std::size_t i = 0; i < j.lot.units.size(); ++i) {
     const synth::UnitTruth& t = sim.truth[i];
     UnitFit u;
@@ -83,76 +82,26 @@ JudgedLot make_judged_lot(std::size_t units, double r10_min_ohm, double r10_max_
     u.curve = make_power_law(t.r10_ohm, t.gamma);
     u.r10_ohm = t.r10_ohm;
     u.gamma = t.gamma;
+    u.gamma_10_100 = t.gamma;
+    u.ln_r10_sd = 0.003;  // a bench with 0.5 % reading noise fits about this well
+    u.gamma_sd = 0.002;
+    u.rms_log_residual = 0.005;
     for (const Reading& r : j.lot.units[i].readings)
       if (r.kind == ReadingKind::normal && r.lux > 0) u.residuals.push_back({0, r.lux, r.ohm});
+    u.points = static_cast<int>(u.residuals.size());
+    u.levels = u.points;
     j.fit.units.push_back(u);
-    ln_r10.push_back(std::log(t.r10_ohm));
-    gamma.push_back(t.gamma);
-
-    UnitVerdict v;
-    v.id = t.id;
-    const Limits& w = j.spec.r10_ohm;
-    if (t.r10_ohm < w.min || t.r10_ohm > w.max) {
-      const bool low = t.r10_ohm < w.min;
-      const double limit = low ? w.min : w.max;
-      Reason r;
-      r.characteristic = Characteristic::r10;
-      r.limit = low ? "min" : "max";
-      r.measured = t.r10_ohm;
-      r.limit_value = limit;
-      r.excess_pct = std::abs(t.r10_ohm - limit) / limit * 100;
-      r.text = fmt::format("R10 {:.1f} kohm {} {} {:.1f} kohm", t.r10_ohm / 1e3,
-                           low ? "below" : "above", r.limit, limit / 1e3);
-      v.verdict = Verdict::nonconforming;
-      v.reasons.push_back(r);
-      j.nonconforming_ids.push_back(t.id);
-    }
-    j.verdicts.push_back(v);
   }
 
-  // Plain sample moments of the truth: inputs for the statistics table and the ellipse.
-  // Percentiles are order statistics picked by nearest rank: enough for a printout check.
-  const auto moments = [](std::vector<double> x, Summary& s) {
-    std::sort(x.begin(), x.end());
-    s.n = x.size();
-    double m = 0;
-    for (double v : x) m += v;
-    m /= static_cast<double>(x.size());
-    double ss = 0;
-    for (double v : x) ss += (v - m) * (v - m);
-    s.mean = m;
-    s.sd = std::sqrt(ss / static_cast<double>(x.size() - 1));
-    s.min = x.front();
-    s.max = x.back();
-    const auto rank = [&](double pct) {
-      return x[static_cast<std::size_t>(
-          std::lround(pct / 100 * static_cast<double>(x.size() - 1)))];
-    };
-    s.median = rank(50);
-    for (std::size_t k = 0; k < kPercentileLevels.size(); ++k)
-      s.percentiles[k] = rank(kPercentileLevels[k]);
-  };
-  j.stats.units_total = units;
-  j.stats.units_fitted = units;
-  moments(ln_r10, j.stats.ln_r10);
-  moments(gamma, j.stats.gamma);
-  j.stats.correlation_ln_r10_gamma = ls.rho;
-  j.stats.tolerance_method = "Howe";
-
-  j.spec.inspection.mode = InspectionMode::full;
-  j.acceptance.mode = InspectionMode::full;
-  j.acceptance.lot_size = units;
-  j.acceptance.measured = units;
-  j.acceptance.nonconforming = j.nonconforming_ids.size();
-  j.acceptance.rejected_units = j.nonconforming_ids;
-  // The summary prints the disposition and rule it is given; the tests check that it does.
-  const bool reject = j.nonconforming_ids.size() >= 2;
-  j.acceptance.disposition = reject ? Disposition::reject : Disposition::accept;
-  j.acceptance.reason =
-      fmt::format("{} nonconforming of {} measured", j.nonconforming_ids.size(), units);
-  j.acceptance.rule =
-      "Every unit measured (test scenario's rule): accept with at most one "
-      "nonconforming unit, reject with two or more.";
+  // The lot's own steps in core/: the verdicts, statistics and disposition the summary prints.
+  j.verdicts = judge(j.fit, j.spec);
+  for (const UnitVerdict& v : j.verdicts)
+    if (v.verdict == Verdict::nonconforming) j.nonconforming_ids.push_back(v.id);
+  StatisticsOptions so;
+  so.coverage = j.spec.tolerance_coverage;
+  so.confidence = j.spec.tolerance_confidence;
+  j.stats = lot_statistics(j.fit, so, &j.spec);
+  j.acceptance = decide(j.spec, j.verdicts);
   return j;
 }
 

@@ -18,8 +18,8 @@ namespace photolot::test {
 
 // Everything a summary reads, owned together. The lot comes from the synthetic-lot generator
 // (stated parameters, fixed seed); its "fit" is each unit's true curve, because these tests
-// check the printout, not the fit. Units whose true R10 falls outside the spec's window are
-// judged nonconforming with a reason naming the limit.
+// check the printout, not the fit. Verdicts, statistics and the disposition come from core's
+// judge, lot_statistics and decide under an invented spec (ISO 2859-1 level II, AQL 1 %).
 struct JudgedLot {
   Lot lot;
   LotFit fit;

@@ -44,6 +44,9 @@ TEST(LotSummaryPdf, PrintsDispositionPartAndEachNonconformingUnitWithItsReason) 
   // units outside (about 30 % of a lognormal with sd 0.15 lies beyond +-0.14 in ln).
   const auto lot = make_judged_lot(60, 17e3, 23e3);
   ASSERT_GE(lot.nonconforming_ids.size(), 2u);
+  // ISO 2859-1: 60 units at level II is code letter E (n 13); at AQL 1.0 % Table II-A sends E
+  // to Ac 0 / Re 1, so nonconforming units reject the lot.
+  ASSERT_EQ(lot.acceptance.disposition, photolot::Disposition::reject);
   const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
   ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
 

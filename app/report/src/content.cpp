@@ -158,10 +158,11 @@ void add_measured_conditions(Content& c, const Lot& lot, const LotFit& fit) {
                        num(*levels.rbegin(), 4));
   }
   c.conditions.push_back({"Illuminance levels logged", text});
-  c.conditions.push_back(
-      {"Temperature logged", std::isfinite(t_min)
-                                 ? fmt::format("{} to {} \u00b0C", fixed(t_min, 1), fixed(t_max, 1))
-                                 : "not logged"});
+  c.conditions.push_back({"Temperature logged",
+                          !std::isfinite(t_min) ? std::string("not logged")
+                          : fixed(t_min, 1) == fixed(t_max, 1)
+                              ? fmt::format("{} \u00b0C throughout", fixed(t_min, 1))
+                              : fmt::format("{} to {} \u00b0C", fixed(t_min, 1), fixed(t_max, 1))});
   c.conditions.push_back(
       {"Readings", fmt::format("{} in {} units ({} dark, {} over range)", readings,
                                lot.units.size(), lot.counts.dark, lot.counts.censored)});
@@ -354,10 +355,16 @@ void add_pairs(Content& c, const PairsSection& p) {
 
 std::string format_ohm(double ohm) {
   if (!std::isfinite(ohm)) return kDash;
+  // Three significant figures, trailing zeros kept so a column reads evenly (25.0 kΩ, not 25 kΩ).
+  const auto three = [](double v) {
+    const double a = std::abs(v);
+    const int decimals = a >= 99.95 ? 0 : a >= 9.995 ? 1 : 2;
+    return fmt::format("{:.{}f}", v, decimals);
+  };
   const double a = std::abs(ohm);
-  if (a >= 1e6) return fmt::format("{:.3g} M\u03a9", ohm / 1e6);
-  if (a >= 1e3) return fmt::format("{:.3g} k\u03a9", ohm / 1e3);
-  return fmt::format("{:.3g} \u03a9", ohm);
+  if (a >= 999.5e3) return three(ohm / 1e6) + " M\u03a9";
+  if (a >= 999.5) return three(ohm / 1e3) + " k\u03a9";
+  return three(ohm) + " \u03a9";
 }
 
 Content build_content(const SummaryInput& in) {
