@@ -16,14 +16,7 @@ int main(int argc, char** argv) {
   in.header.inspector.clear();  // printed as a line to fill in
   if (argc > 2 && std::string(argv[2]) == "letter")
     in.page_size = photolot::report::PageSize::letter;
-  photolot::report::PairsSection pairs;
-  pairs.method = "invented example: pairs of neighbouring units, error made up for the preview";
-  pairs.tolerance_pct = 3.0;
-  for (int k = 0; k < 12; ++k)
-    pairs.rows.push_back(
-        {k + 1, lot.fit.units[2 * k].id, lot.fit.units[2 * k + 1].id, 0.25 * (k + 1)});
-  pairs.unpaired = lot.fit.units.size() - 24;
-  in.pairs = pairs;
+  in.pairs = photolot::test::make_pairs(lot, 12, 0.25, 3.0);
   const std::string error = photolot::report::write_lot_summary_pdf(in, argv[1]);
   if (!error.empty()) {
     std::fprintf(stderr, "report_preview: %s\n", error.c_str());

@@ -105,6 +105,19 @@ JudgedLot make_judged_lot(std::size_t units, double r10_min_ohm, double r10_max_
   return j;
 }
 
+report::PairsSection make_pairs(const JudgedLot& lot, int pairs, double error_step_pct,
+                                double tolerance_pct) {
+  report::PairsSection p;
+  p.method = "invented example: neighbouring units paired, errors made up for the test";
+  p.tolerance_pct = tolerance_pct;
+  for (int k = 0; k < pairs; ++k)
+    p.rows.push_back({k + 1, lot.fit.units[2 * static_cast<std::size_t>(k)].id,
+                      lot.fit.units[2 * static_cast<std::size_t>(k) + 1].id,
+                      error_step_pct * (k + 1)});
+  p.unpaired = lot.fit.units.size() - 2 * static_cast<std::size_t>(pairs);
+  return p;
+}
+
 std::optional<std::string> pdf_text(const std::filesystem::path& pdf) {
   const auto txt = std::filesystem::path(pdf).replace_extension(".txt");
   const std::string cmd = "pdftotext -layout " + quoted(pdf) + " " + quoted(txt) + " 2>/dev/null";

@@ -36,6 +36,11 @@ struct JudgedLot {
 JudgedLot make_judged_lot(std::size_t units, double r10_min_ohm, double r10_max_ohm,
                           std::uint64_t seed = 7);
 
+// A pairs section over the lot's first 2 * pairs units, taken in order, with made-up errors
+// error_step_pct, 2 x error_step_pct, ... (the printout's input, not a pairing).
+report::PairsSection make_pairs(const JudgedLot& lot, int pairs, double error_step_pct,
+                                double tolerance_pct);
+
 // pdftotext -layout of the file, or nullopt when pdftotext failed.
 std::optional<std::string> pdf_text(const std::filesystem::path& pdf);
 // "Pages:" and "Page size:" from pdfinfo; pages 0 when pdfinfo failed.

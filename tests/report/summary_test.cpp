@@ -137,13 +137,7 @@ TEST(LotSummaryPdf, LotWithoutSpecIsMarkedNotJudgedAndKeepsBlankFieldsToFillIn) 
 TEST(LotSummaryPdf, PrintsThePairsPickListWhenGiven) {
   auto lot = make_judged_lot(30, 17e3, 23e3);
   auto in = lot.input();
-  photolot::report::PairsSection pairs;
-  pairs.method = "curves matched on ln R from 1 to 1000 lx";
-  pairs.tolerance_pct = 2.0;
-  for (int k = 0; k < 10; ++k)
-    pairs.rows.push_back(
-        {k + 1, lot.fit.units[2 * k].id, lot.fit.units[2 * k + 1].id, 0.2 * (k + 1)});
-  pairs.unpaired = 10;
+  const auto pairs = photolot::test::make_pairs(lot, 10, 0.2, 2.0);
   in.pairs = pairs;
   const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
   ASSERT_EQ(write_lot_summary_pdf(in, pdf.string()), "");

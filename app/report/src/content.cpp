@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <filesystem>
 #include <set>
@@ -34,44 +35,11 @@ std::string window_text(const Limits& limits, auto&& format) {
   return "not limited";
 }
 
+// The disposition in capitals, as it is stamped on the page.
 std::string disposition_word(Disposition d) {
-  switch (d) {
-    case Disposition::accept:
-      return "ACCEPT";
-    case Disposition::reject:
-      return "REJECT";
-    case Disposition::undecided:
-      return "UNDECIDED";
-  }
-  return "UNDECIDED";
-}
-
-std::string level_text(InspectionLevel level) {
-  switch (level) {
-    case InspectionLevel::level_i:
-      return "I";
-    case InspectionLevel::level_ii:
-      return "II";
-    case InspectionLevel::level_iii:
-      return "III";
-  }
-  return "?";
-}
-
-std::string characteristic_name(Characteristic c) {
-  switch (c) {
-    case Characteristic::r10:
-      return "R10";
-    case Characteristic::gamma:
-      return "gamma";
-    case Characteristic::dark:
-      return "dark resistance";
-    case Characteristic::rms_log_residual:
-      return "fit residual";
-    case Characteristic::fit:
-      return "fit";
-  }
-  return "?";
+  std::string word(to_string(d));
+  for (char& ch : word) ch = static_cast<char>(std::toupper(static_cast<unsigned char>(ch)));
+  return word;
 }
 
 // A reason's own sentence when it has one; otherwise one made from its numbers.
@@ -81,10 +49,10 @@ std::string reason_text(const Reason& r) {
       r.characteristic == Characteristic::r10 || r.characteristic == Characteristic::dark;
   const auto value = [&](double v) { return ohm ? format_ohm(v) : num(v, 3); };
   if (r.limit == "min" || r.limit == "max")
-    return fmt::format("{} {} {} {} {}", characteristic_name(r.characteristic), value(r.measured),
+    return fmt::format("{} {} {} {} {}", to_string(r.characteristic), value(r.measured),
                        r.limit == "min" ? "below min" : "above max", value(r.limit_value),
                        std::isfinite(r.excess_pct) ? fmt::format("by {:.1f} %", r.excess_pct) : "");
-  return fmt::format("{}: {}", characteristic_name(r.characteristic), r.limit);
+  return fmt::format("{}: {}", to_string(r.characteristic), r.limit);
 }
 
 void add_spec(Content& c, const Spec& spec) {
@@ -112,7 +80,7 @@ void add_spec(Content& c, const Spec& spec) {
     c.spec.push_back(
         {"Inspection", fmt::format("ISO 2859-1 single sampling, normal inspection, level {}, "
                                    "AQL {} %",
-                                   level_text(in.level), num(in.aql_pct))});
+                                   to_string(in.level), num(in.aql_pct))});
   c.spec.push_back({"Tolerance intervals", fmt::format("{} % of units with {} % confidence",
                                                        num(spec.tolerance_coverage * 100),
                                                        num(spec.tolerance_confidence * 100))});
@@ -245,35 +213,23 @@ void add_statistics(Content& c, const LotStatistics& s) {
                    num(s.confidence * 100), fixed(r.tolerance_factor, 3)),
        fmt::format("{} to {}", ohm(r.tolerance_interval[0]), ohm(r.tolerance_interval[1])),
        fmt::format("{} to {}", g(y.tolerance_interval[0]), g(y.tolerance_interval[1]))});
-  const auto cap = [](const std::optional<Capability>& cp, auto&& pick) -> std::string {
-    return cp ? pick(*cp) : std::string("no limits");
+  // One row of process performance: `pick` formats a Capability, for R10 and for gamma.
+  const auto capability_row = [&](std::string label, auto&& pick) {
+    const auto cell = [&](const std::optional<Capability>& cp) {
+      return cp ? std::string(pick(*cp)) : std::string("no limits");
+    };
+    rows.push_back({std::move(label), cell(s.r10_capability), cell(s.gamma_capability)});
   };
-  rows.push_back({"Pp / Ppk (observed spread)",
-                  cap(s.r10_capability,
-                      [](const Capability& k) {
-                        return fmt::format("{} / {}", fixed(k.pp, 2), fixed(k.ppk, 2));
-                      }),
-                  cap(s.gamma_capability, [](const Capability& k) {
-                    return fmt::format("{} / {}", fixed(k.pp, 2), fixed(k.ppk, 2));
-                  })});
-  rows.push_back({"Cp / Cpk (spread of the parts)",
-                  cap(s.r10_capability,
-                      [](const Capability& k) {
-                        return fmt::format("{} / {}", fixed(k.cp, 2), fixed(k.cpk, 2));
-                      }),
-                  cap(s.gamma_capability, [](const Capability& k) {
-                    return fmt::format("{} / {}", fixed(k.cp, 2), fixed(k.cpk, 2));
-                  })});
-  rows.push_back({"Expected outside limits (normal model)",
-                  cap(s.r10_capability,
-                      [](const Capability& k) {
-                        return std::isfinite(k.ppm_total) ? fmt::format("{:.0f} ppm", k.ppm_total)
-                                                          : std::string(kDash);
-                      }),
-                  cap(s.gamma_capability, [](const Capability& k) {
-                    return std::isfinite(k.ppm_total) ? fmt::format("{:.0f} ppm", k.ppm_total)
-                                                      : std::string(kDash);
-                  })});
+  const auto pair_of = [](double a, double b) {
+    return fmt::format("{} / {}", fixed(a, 2), fixed(b, 2));
+  };
+  capability_row("Pp / Ppk (observed spread)",
+                 [&](const Capability& k) { return pair_of(k.pp, k.ppk); });
+  capability_row("Cp / Cpk (spread of the parts)",
+                 [&](const Capability& k) { return pair_of(k.cp, k.cpk); });
+  capability_row("Expected outside limits (normal model)", [](const Capability& k) {
+    return std::isfinite(k.ppm_total) ? fmt::format("{:.0f} ppm", k.ppm_total) : std::string(kDash);
+  });
   std::size_t out_r10 = 0, out_gamma = 0;
   for (const Outlier& o : s.outliers) {
     if (o.characteristic == Characteristic::r10) ++out_r10;
@@ -385,7 +341,7 @@ Content build_content(const SummaryInput& in) {
           p.description.empty()
               ? fmt::format("Lot of {}, level {}, AQL {} %: code letter {}, plan {}: sample {}, "
                             "Ac {} / Re {}{}.",
-                            p.lot_size, level_text(p.level), num(p.aql_pct), p.code_letter,
+                            p.lot_size, to_string(p.level), num(p.aql_pct), p.code_letter,
                             p.plan_letter, p.sample_size, p.accept_number, p.reject_number,
                             p.full_inspection ? " (every unit inspected)" : "")
               : p.description);

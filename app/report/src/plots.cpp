@@ -103,6 +103,24 @@ void bin_legend_entry(QCustomPlot& plot, const QString& name) {
   bars->setBrush(kBin);
 }
 
+// Grey bins with black outlines; `to_axis` maps a bin edge to the axis' coordinate (exp for
+// bins in ln R10). Returns the largest count.
+template <typename ToAxis>
+std::size_t draw_bins(QCustomPlot& plot, const Histogram& h, ToAxis to_axis) {
+  std::size_t max_count = 1;
+  for (std::size_t k = 0; k < h.counts.size(); ++k) {
+    max_count = std::max(max_count, h.counts[k]);
+    if (h.counts[k] == 0) continue;
+    auto* rect = new QCPItemRect(&plot);
+    rect->topLeft->setCoords(to_axis(h.lo + h.width * static_cast<double>(k)),
+                             static_cast<double>(h.counts[k]));
+    rect->bottomRight->setCoords(to_axis(h.lo + h.width * static_cast<double>(k + 1)), 0.0);
+    rect->setPen(QPen(Qt::black, 0.6));
+    rect->setBrush(kBin);
+  }
+  return max_count;
+}
+
 // A graph that only shows a legend entry (for items, which have none).
 QCPGraph* legend_entry(QCustomPlot& plot, const QString& name, const QPen& pen,
                        const QBrush& brush = Qt::NoBrush,
@@ -246,17 +264,7 @@ void histogram_plot(QCustomPlot& plot, const Content& c, bool r10) {
   style_axis(plot.xAxis, r10 ? "R10" : "gamma");
   style_axis(plot.yAxis, "units");
   integer_ticks(plot.yAxis);
-  std::size_t max_count = 1;
-  for (std::size_t k = 0; k < h.counts.size(); ++k) {
-    max_count = std::max(max_count, h.counts[k]);
-    if (h.counts[k] == 0) continue;
-    auto* rect = new QCPItemRect(&plot);
-    rect->topLeft->setCoords(from_bin(h.lo + h.width * static_cast<double>(k)),
-                             static_cast<double>(h.counts[k]));
-    rect->bottomRight->setCoords(from_bin(h.lo + h.width * static_cast<double>(k + 1)), 0.0);
-    rect->setPen(QPen(Qt::black, 0.6));
-    rect->setBrush(kBin);
-  }
+  const std::size_t max_count = draw_bins(plot, h, from_bin);
   bin_legend_entry(plot, "units per bin");
   const auto [x_lo, x_hi] =
       padded(h.lo, h.lo + h.width * static_cast<double>(h.counts.size()), 0.04);
@@ -369,17 +377,7 @@ void pair_error_plot(QCustomPlot& plot, const Content& c) {
   style_axis(plot.xAxis, "tracking error (%)");
   style_axis(plot.yAxis, "pairs");
   integer_ticks(plot.yAxis);
-  std::size_t max_count = 1;
-  for (std::size_t k = 0; k < h.counts.size(); ++k) {
-    max_count = std::max(max_count, h.counts[k]);
-    if (h.counts[k] == 0) continue;
-    auto* rect = new QCPItemRect(&plot);
-    rect->topLeft->setCoords(h.lo + h.width * static_cast<double>(k),
-                             static_cast<double>(h.counts[k]));
-    rect->bottomRight->setCoords(h.lo + h.width * static_cast<double>(k + 1), 0.0);
-    rect->setPen(QPen(Qt::black, 0.6));
-    rect->setBrush(kBin);
-  }
+  const std::size_t max_count = draw_bins(plot, h, [](double v) { return v; });
   bin_legend_entry(plot, "pairs per bin");
   plot.xAxis->setRange(0, hi * 1.05);
   plot.yAxis->setRange(0, static_cast<double>(max_count) * 1.45 + 0.5);
