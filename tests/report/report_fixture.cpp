@@ -118,14 +118,28 @@ report::PairsSection make_pairs(const JudgedLot& lot, int pairs, double error_st
   return p;
 }
 
-std::optional<std::string> pdf_text(const std::filesystem::path& pdf) {
-  const auto txt = std::filesystem::path(pdf).replace_extension(".txt");
-  const std::string cmd = "pdftotext -layout " + quoted(pdf) + " " + quoted(txt) + " 2>/dev/null";
+namespace {
+
+std::optional<std::string> text_of(const std::filesystem::path& pdf, const std::string& pages,
+                                   const std::string& suffix) {
+  const auto txt = std::filesystem::path(pdf).replace_extension(suffix);
+  const std::string cmd =
+      "pdftotext -layout " + pages + quoted(pdf) + " " + quoted(txt) + " 2>/dev/null";
   if (std::system(cmd.c_str()) != 0) return std::nullopt;
   std::ifstream in(txt, std::ios::binary);
   std::stringstream ss;
   ss << in.rdbuf();
   return ss.str();
+}
+
+}  // namespace
+
+std::optional<std::string> pdf_text(const std::filesystem::path& pdf) {
+  return text_of(pdf, "", ".txt");
+}
+
+std::optional<std::string> pdf_page_text(const std::filesystem::path& pdf, int page) {
+  return text_of(pdf, fmt::format("-f {} -l {} ", page, page), fmt::format(".page{}.txt", page));
 }
 
 PdfInfo pdf_info(const std::filesystem::path& pdf) {

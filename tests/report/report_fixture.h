@@ -43,6 +43,8 @@ report::PairsSection make_pairs(const JudgedLot& lot, int pairs, double error_st
 
 // pdftotext -layout of the file, or nullopt when pdftotext failed.
 std::optional<std::string> pdf_text(const std::filesystem::path& pdf);
+// The same for one page (1-based).
+std::optional<std::string> pdf_page_text(const std::filesystem::path& pdf, int page);
 // "Pages:" and "Page size:" from pdfinfo; pages 0 when pdfinfo failed.
 struct PdfInfo {
   int pages = 0;

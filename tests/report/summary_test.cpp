@@ -68,6 +68,29 @@ TEST(LotSummaryPdf, PrintsDispositionPartAndEachNonconformingUnitWithItsReason) 
   EXPECT_NE(flat.find("Signature"), std::string::npos);
 }
 
+TEST(LotSummaryPdf, PutsTheDispositionAndTheHeadOnTheFirstPage) {
+  const auto lot = make_judged_lot(60, 17e3, 23e3);
+  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
+  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const std::string first = collapse_space(photolot::test::pdf_page_text(pdf, 1).value_or(""));
+  EXPECT_NE(first.find("REJECT"), std::string::npos);
+  EXPECT_NE(first.find("LDR-5528-T"), std::string::npos);
+  EXPECT_NE(first.find("Invented Optoparts"), std::string::npos);
+  EXPECT_NE(first.find("Purchase spec"), std::string::npos);
+}
+
+TEST(LotSummaryPdf, DrawsThePlotsAsVectorsWithTheirAxesAndLegends) {
+  // Plots drawn as vector graphics keep their text, so pdftotext finds axis titles and legend
+  // entries; a raster image or a missing plot would hold none.
+  const auto lot = make_judged_lot(60, 17e3, 23e3);
+  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
+  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const std::string flat = collapse_space(pdf_text(pdf).value_or(""));
+  for (const char* label : {"illuminance E", "resistance R", "R10 window at 10 lx", "units per bin",
+                            "spec limit", "spec box", "ellipse of (ln R10, gamma)"})
+    EXPECT_NE(flat.find(label), std::string::npos) << label;
+}
+
 TEST(LotSummaryPdf, NumbersEveryPageAsPageNOfTheCountPdfinfoReports) {
   const auto lot = make_judged_lot(40, 17e3, 23e3);
   const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
