@@ -10,6 +10,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <initializer_list>
 #include <sstream>
 
 #include "report_fixture.h"
@@ -31,6 +32,26 @@ std::string read_bytes(const fs::path& p) {
   return ss.str();
 }
 
+// Writes the summary into the test's scratch folder; an empty path when writing failed.
+fs::path write_summary(const photolot::report::SummaryInput& in,
+                       const std::string& name = "summary.pdf") {
+  const fs::path pdf = photolot::test::scratch_dir() / name;
+  const std::string error = write_lot_summary_pdf(in, pdf.string());
+  EXPECT_EQ(error, "");
+  return error.empty() ? pdf : fs::path();
+}
+
+// The written summary's text, whitespace collapsed; empty when writing or reading failed.
+std::string summary_text(const photolot::report::SummaryInput& in) {
+  const fs::path pdf = write_summary(in);
+  return pdf.empty() ? std::string() : collapse_space(pdf_text(pdf).value_or(""));
+}
+
+// Every phrase must appear in the text (whitespace collapsed).
+void expect_all(const std::string& flat, std::initializer_list<std::string_view> phrases) {
+  for (std::string_view p : phrases) EXPECT_NE(flat.find(p), std::string::npos) << p;
+}
+
 std::size_t files_in(const fs::path& dir) {
   std::size_t n = 0;
   for ([[maybe_unused]] const auto& e : fs::directory_iterator(dir)) ++n;
@@ -47,8 +68,8 @@ TEST(LotSummaryPdf, PrintsDispositionPartAndEachNonconformingUnitWithItsReason) 
   // ISO 2859-1: 60 units at level II is code letter E (n 13); at AQL 1.0 % Table II-A sends E
   // to Ac 0 / Re 1, so nonconforming units reject the lot.
   ASSERT_EQ(lot.acceptance.disposition, photolot::Disposition::reject);
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const fs::path pdf = write_summary(lot.input());
+  ASSERT_FALSE(pdf.empty());
 
   const auto text = pdf_text(pdf);
   ASSERT_TRUE(text.has_value()) << "pdftotext could not read the summary";
@@ -63,38 +84,31 @@ TEST(LotSummaryPdf, PrintsDispositionPartAndEachNonconformingUnitWithItsReason) 
     EXPECT_NE(flat.find(v.reasons.front().text), std::string::npos) << v.reasons.front().text;
   }
   // The cautions a bench needs (cadmium, mains) and the lines to sign on.
-  EXPECT_NE(flat.find("cadmium"), std::string::npos);
-  EXPECT_NE(flat.find("IEC 61140"), std::string::npos);
-  EXPECT_NE(flat.find("Signature"), std::string::npos);
+  expect_all(flat, {"cadmium", "IEC 61140", "Signature"});
 }
 
 TEST(LotSummaryPdf, PutsTheDispositionAndTheHeadOnTheFirstPage) {
   const auto lot = make_judged_lot(60, 17e3, 23e3);
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const fs::path pdf = write_summary(lot.input());
+  ASSERT_FALSE(pdf.empty());
   const std::string first = collapse_space(photolot::test::pdf_page_text(pdf, 1).value_or(""));
-  EXPECT_NE(first.find("REJECT"), std::string::npos);
-  EXPECT_NE(first.find("LDR-5528-T"), std::string::npos);
-  EXPECT_NE(first.find("Invented Optoparts"), std::string::npos);
-  EXPECT_NE(first.find("Purchase spec"), std::string::npos);
+  expect_all(first, {"REJECT", "LDR-5528-T", "Invented Optoparts", "Purchase spec"});
 }
 
 TEST(LotSummaryPdf, DrawsThePlotsAsVectorsWithTheirAxesAndLegends) {
   // Plots drawn as vector graphics keep their text, so pdftotext finds axis titles and legend
   // entries; a raster image or a missing plot would hold none.
   const auto lot = make_judged_lot(60, 17e3, 23e3);
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
-  const std::string flat = collapse_space(pdf_text(pdf).value_or(""));
-  for (const char* label : {"illuminance E", "resistance R", "R10 window at 10 lx", "units per bin",
-                            "spec limit", "spec box", "ellipse of (ln R10, gamma)"})
-    EXPECT_NE(flat.find(label), std::string::npos) << label;
+  const std::string flat = summary_text(lot.input());
+  ASSERT_FALSE(flat.empty());
+  expect_all(flat, {"illuminance E", "resistance R", "R10 window at 10 lx", "units per bin",
+                    "spec limit", "spec box", "ellipse of (ln R10, gamma)"});
 }
 
 TEST(LotSummaryPdf, NumbersEveryPageAsPageNOfTheCountPdfinfoReports) {
   const auto lot = make_judged_lot(40, 17e3, 23e3);
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const fs::path pdf = write_summary(lot.input());
+  ASSERT_FALSE(pdf.empty());
   const auto info = pdf_info(pdf);
   ASSERT_GE(info.pages, 3);  // page 1 summary, page 2 plots, then the lists and signatures
   const std::string flat = collapse_space(pdf_text(pdf).value_or(""));
@@ -107,8 +121,8 @@ TEST(LotSummaryPdf, LongNonconformingListFlowsOverPagesWithEveryUnitListed) {
   // A window that most of a 400-unit lot misses: the list cannot fit on one page.
   const auto lot = make_judged_lot(400, 19.5e3, 20.5e3);
   ASSERT_GT(lot.nonconforming_ids.size(), 200u);
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(lot.input(), pdf.string()), "");
+  const fs::path pdf = write_summary(lot.input());
+  ASSERT_FALSE(pdf.empty());
   const auto small = make_judged_lot(40, 17e3, 23e3);
   const fs::path small_pdf = pdf.parent_path() / "small.pdf";
   ASSERT_EQ(write_lot_summary_pdf(small.input(), small_pdf.string()), "");
@@ -146,9 +160,8 @@ TEST(LotSummaryPdf, LotWithoutSpecIsMarkedNotJudgedAndKeepsBlankFieldsToFillIn) 
   photolot::report::SummaryInput in;
   in.lot = &lot.lot;
   in.fit = &lot.fit;
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(in, pdf.string()), "");
-  const std::string flat = collapse_space(pdf_text(pdf).value_or(""));
+  const std::string flat = summary_text(in);
+  ASSERT_FALSE(flat.empty());
   EXPECT_NE(flat.find("NOT JUDGED"), std::string::npos);
   EXPECT_NE(flat.find("No purchase spec was given"), std::string::npos);
   EXPECT_EQ(flat.find("REJECT"), std::string::npos);
@@ -162,9 +175,8 @@ TEST(LotSummaryPdf, PrintsThePairsPickListWhenGiven) {
   auto in = lot.input();
   const auto pairs = photolot::test::make_pairs(lot, 10, 0.2, 2.0);
   in.pairs = pairs;
-  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
-  ASSERT_EQ(write_lot_summary_pdf(in, pdf.string()), "");
-  const std::string flat = collapse_space(pdf_text(pdf).value_or(""));
+  const std::string flat = summary_text(in);
+  ASSERT_FALSE(flat.empty());
   EXPECT_NE(flat.find("Matched pairs"), std::string::npos);
   for (const auto& r : pairs.rows) {
     EXPECT_NE(flat.find(r.id_a), std::string::npos);
@@ -217,4 +229,21 @@ TEST(LotSummaryPdf, RefusesInputWithoutAFit) {
   const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
   EXPECT_NE(write_lot_summary_pdf(in, pdf.string()), "");
   EXPECT_FALSE(fs::exists(pdf));
+}
+
+TEST(LotSummaryPdf, LotWithNoFittedUnitStillPrintsAndSaysWhyEachWasNotFitted) {
+  // Without a spec or verdicts, units that could not be fitted are the list of problems.
+  auto lot = make_judged_lot(8, 17e3, 23e3);
+  for (auto& u : lot.fit.units) {
+    u.status = photolot::FitStatus::too_few_levels;
+    u.message = "2 illuminance levels, 3 needed";
+  }
+  photolot::report::SummaryInput in;
+  in.lot = &lot.lot;
+  in.fit = &lot.fit;
+  const std::string flat = summary_text(in);
+  ASSERT_FALSE(flat.empty());
+  for (const auto& u : lot.fit.units) EXPECT_NE(flat.find(u.id), std::string::npos) << u.id;
+  EXPECT_NE(flat.find("not fitted: 2 illuminance levels, 3 needed"), std::string::npos);
+  EXPECT_NE(flat.find("0 of 8"), std::string::npos);  // units fitted
 }

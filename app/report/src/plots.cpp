@@ -20,6 +20,9 @@ constexpr double kLabelPt = 7.5;
 
 QFont plot_font(double pt) {
   QFont f("DejaVu Sans");
+  // No shaping for Latin text: no "fi"/"fl" ligatures, so the PDF's text searches and copies
+  // as typed (unit ids, reasons).
+  f.setStyleStrategy(QFont::PreferNoShaping);
   f.setPointSizeF(pt);
   return f;
 }

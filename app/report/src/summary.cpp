@@ -39,6 +39,9 @@ QString qs(const std::string& s) { return QString::fromStdString(s); }
 
 QFont font(double pt, bool bold = false) {
   QFont f("DejaVu Sans");
+  // No shaping for Latin text: no "fi"/"fl" ligatures, so the PDF's text searches and copies
+  // as typed (unit ids, reasons).
+  f.setStyleStrategy(QFont::PreferNoShaping);
   f.setPointSizeF(pt);
   f.setBold(bold);
   return f;
@@ -111,14 +114,8 @@ class Flow {
 
   // keep_mm: how much of what follows must fit below the heading on the same page.
   void heading(const std::string& s, double keep_mm = 14) {
-    const QFont f = font(11, true);
-    const double h = measure(qs(s), f, text_width());
-    ensure(h + mm(keep_mm));
-    y_ += mm(2);
-    text(QRectF(left_, y_, text_width(), h), qs(s), f, Qt::AlignLeft);
-    y_ += h + mm(0.8);
-    line(left_, y_, right_, y_, 0.25, kRule);
-    y_ += mm(1.8);
+    ensure(heading_height() + mm(keep_mm));
+    heading_inline(s);
   }
 
   void paragraph(const std::string& s, const QFont& f, const QColor& color = Qt::black) {
@@ -202,7 +199,8 @@ class Flow {
     }
   }
 
-  void table(const Table& t) {
+  // A table, under its section heading when `title` is given (kept on the same page).
+  void table(const Table& t, const std::string& title = {}) {
     if (t.headers.empty()) return;
     double total = 0;
     for (double w : t.widths) total += w;
@@ -233,7 +231,16 @@ class Flow {
       y_ += h;
       line(left_, y_, table_right, y_, 0.35, Qt::black);
     };
-    ensure(row_height(t.headers, hf) + (t.rows.empty() ? 0 : row_height(t.rows.front(), cf)));
+    // A table that fits on a page is kept together; a longer one starts with at least a row.
+    const double title_h = title.empty() ? 0 : heading_height();
+    double whole = row_height(t.headers, hf);
+    for (const auto& r : t.rows) whole += row_height(r, cf);
+    if (title_h + whole <= bottom_ - top_)
+      ensure(title_h + whole);
+    else
+      ensure(title_h + row_height(t.headers, hf) +
+             (t.rows.empty() ? 0 : row_height(t.rows.front(), cf)));
+    if (!title.empty()) heading_inline(title);
     header();
     for (const auto& r : t.rows) {
       const double h = row_height(r, cf);
@@ -337,6 +344,8 @@ class Flow {
   }
 
  private:
+  double heading_height() const { return measure("Xg", font(11, true), text_width()) + mm(4.6); }
+
   void heading_inline(const std::string& s) {
     const QFont f = font(11, true);
     const double h = measure(qs(s), f, text_width());
@@ -378,8 +387,10 @@ int lay_out(QPdfWriter& writer, QPainter* painter, const Content& c, int total_p
     f.key_values(c.spec);
   f.heading("Test conditions and measurement");
   f.key_values(c.conditions);
-  f.heading("Lot statistics", 60);
-  f.table(c.statistics);
+  if (c.statistics.rows.empty())
+    f.heading("Lot statistics");
+  else
+    f.table(c.statistics, "Lot statistics");
   f.paragraph(c.statistics_note, font(7.5), kLabel);
 
   f.heading("Curves and spread", 95);
