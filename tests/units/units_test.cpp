@@ -29,7 +29,10 @@ TEST(Units, FindsHeaderUnitsByTheirCommonSpellings) {
   EXPECT_EQ(find_unit("\xE2\x84\xA6")->canonical, "ohm");          // Ω (ohm sign)
   EXPECT_EQ(find_unit("kohm")->scale, 1e3);
   EXPECT_EQ(find_unit("Mohm")->scale, 1e6);
-  EXPECT_EQ(find_unit("\xC2\xB0" "C")->canonical, "degC");  // °C
+  EXPECT_EQ(find_unit("\xC2\xB0"
+                      "C")
+                ->canonical,
+            "degC");  // °C
   EXPECT_EQ(find_unit("degC")->canonical, "degC");
   EXPECT_EQ(find_unit("deg C")->canonical, "degC");
   // 0 degC = 273.15 K (SI Brochure, 9th edition, 2.3.1).
@@ -37,7 +40,9 @@ TEST(Units, FindsHeaderUnitsByTheirCommonSpellings) {
   ASSERT_TRUE(k);
   EXPECT_NEAR(300 * k->scale + k->offset, 26.85, 1e-12);
   // 212 degF = 100 degC, 32 degF = 0 degC (from memory; the Fahrenheit scale's fixed points).
-  const auto f = find_unit("\xC2\xB0" "F");
+  const auto f = find_unit(
+      "\xC2\xB0"
+      "F");
   ASSERT_TRUE(f);
   EXPECT_NEAR(212 * f->scale + f->offset, 100, 1e-12);
   EXPECT_NEAR(32 * f->scale + f->offset, 0, 1e-12);
@@ -51,15 +56,15 @@ TEST(Units, DoesNotMistakeMilliohmSymbolForMegohm) {
 
 // IEC 60062, the resistance letter code: the multiplier letter stands for the decimal point.
 TEST(Units, ParsesIec60062LetterCodes) {
-  EXPECT_NEAR(*parse_resistance("R47"), 0.47, 1e-15);   // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4R7"), 4.7, 1e-15);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("470R"), 470, 1e-12);   // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4K7"), 4.7e3, 1e-9);   // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("47K3"), 47.3e3, 1e-9); // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4M7"), 4.7e6, 1e-6);   // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("1M0"), 1.0e6, 1e-6);   // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("6L8"), 6.8e-3, 1e-15); // IEC 60062 example (milliohm)
-  EXPECT_NEAR(*parse_resistance("15M0"), 15e6, 1e-6);   // trailing zero states precision
+  EXPECT_NEAR(*parse_resistance("R47"), 0.47, 1e-15);    // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("4R7"), 4.7, 1e-15);     // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("470R"), 470, 1e-12);    // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("4K7"), 4.7e3, 1e-9);    // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("47K3"), 47.3e3, 1e-9);  // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("4M7"), 4.7e6, 1e-6);    // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("1M0"), 1.0e6, 1e-6);    // IEC 60062 example
+  EXPECT_NEAR(*parse_resistance("6L8"), 6.8e-3, 1e-15);  // IEC 60062 example (milliohm)
+  EXPECT_NEAR(*parse_resistance("15M0"), 15e6, 1e-6);    // trailing zero states precision
   EXPECT_NEAR(*parse_resistance("K47"), 470, 1e-12);     // letter first: 0.47 kohm
 }
 

@@ -7,6 +7,8 @@
 //   tolerance      one of B C D F G J K M N after a multiplier       "27KK", "4K7J"
 //   unit           "ohm", "ohms", "Ω" (U+03A9) or "Ω" (U+2126)      "4.7 kΩ", "220 ohm"
 // Numbers go through std::from_chars, never the C locale.
+#include "photolot/units.h"
+
 #include <array>
 #include <charconv>
 #include <cmath>
@@ -14,26 +16,28 @@
 #include <limits>
 #include <string>
 
-#include "photolot/units.h"
 #include "value_scan.h"
 
 namespace photolot {
 
 std::string_view to_string(Quantity quantity) {
   switch (quantity) {
-    case Quantity::illuminance: return "illuminance";
-    case Quantity::resistance: return "resistance";
-    case Quantity::temperature: return "temperature";
+    case Quantity::illuminance:
+      return "illuminance";
+    case Quantity::resistance:
+      return "resistance";
+    case Quantity::temperature:
+      return "temperature";
   }
   return "?";
 }
 
 namespace {
 
-constexpr std::string_view kOmega = "\xCE\xA9";      // U+03A9 GREEK CAPITAL LETTER OMEGA
+constexpr std::string_view kOmega = "\xCE\xA9";        // U+03A9 GREEK CAPITAL LETTER OMEGA
 constexpr std::string_view kOhmSign = "\xE2\x84\xA6";  // U+2126 OHM SIGN
-constexpr std::string_view kMicro = "\xC2\xB5";      // U+00B5 MICRO SIGN
-constexpr std::string_view kMu = "\xCE\xBC";         // U+03BC GREEK SMALL LETTER MU
+constexpr std::string_view kMicro = "\xC2\xB5";        // U+00B5 MICRO SIGN
+constexpr std::string_view kMu = "\xCE\xBC";           // U+03BC GREEK SMALL LETTER MU
 
 double pow10i(int e) {
   static const auto table = [] {
@@ -142,16 +146,25 @@ std::optional<std::pair<double, std::size_t>> scan_si_prefix(std::string_view s)
   if (s.empty()) return std::nullopt;
   if (s.starts_with(kMicro) || s.starts_with(kMu)) return std::pair{1e-6, std::size_t{2}};
   switch (s[0]) {
-    case 'p': return std::pair{1e-12, std::size_t{1}};
-    case 'n': return std::pair{1e-9, std::size_t{1}};
-    case 'u': return std::pair{1e-6, std::size_t{1}};
-    case 'm': return std::pair{1e-3, std::size_t{1}};
+    case 'p':
+      return std::pair{1e-12, std::size_t{1}};
+    case 'n':
+      return std::pair{1e-9, std::size_t{1}};
+    case 'u':
+      return std::pair{1e-6, std::size_t{1}};
+    case 'm':
+      return std::pair{1e-3, std::size_t{1}};
     case 'k':
-    case 'K': return std::pair{1e3, std::size_t{1}};
-    case 'M': return std::pair{1e6, std::size_t{1}};
-    case 'G': return std::pair{1e9, std::size_t{1}};
-    case 'T': return std::pair{1e12, std::size_t{1}};
-    default: return std::nullopt;
+    case 'K':
+      return std::pair{1e3, std::size_t{1}};
+    case 'M':
+      return std::pair{1e6, std::size_t{1}};
+    case 'G':
+      return std::pair{1e9, std::size_t{1}};
+    case 'T':
+      return std::pair{1e12, std::size_t{1}};
+    default:
+      return std::nullopt;
   }
 }
 
@@ -160,20 +173,29 @@ std::optional<double> letter_multiplier(char c) {
   switch (c) {
     case 'L':
     case 'l':
-    case 'm': return 1e-3;
+    case 'm':
+      return 1e-3;
     case 'R':
-    case 'r': return 1.0;
+    case 'r':
+      return 1.0;
     case 'K':
-    case 'k': return 1e3;
-    case 'M': return 1e6;
-    case 'G': return 1e9;
-    case 'T': return 1e12;
-    default: return std::nullopt;
+    case 'k':
+      return 1e3;
+    case 'M':
+      return 1e6;
+    case 'G':
+      return 1e9;
+    case 'T':
+      return 1e12;
+    default:
+      return std::nullopt;
   }
 }
 
 // IEC 60062 tolerance letters.
-bool is_tolerance_letter(char c) { return std::string_view("BCDFGJKMN").find(c) != std::string_view::npos; }
+bool is_tolerance_letter(char c) {
+  return std::string_view("BCDFGJKMN").find(c) != std::string_view::npos;
+}
 
 // "ohm", "ohms", "Ω", "Ω" at the start of s: byte length, or 0.
 std::size_t ohm_unit_length(std::string_view s) {
@@ -268,8 +290,9 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
     } else {
       rest = skip_spaces(rest);
       if (const auto prefix = scan_si_prefix(rest);
-          prefix && (rest.size() == prefix->second || ohm_unit_length(rest.substr(prefix->second)) ||
-                     rest[prefix->second] == ' ' || is_tolerance_letter(rest[prefix->second]))) {
+          prefix &&
+          (rest.size() == prefix->second || ohm_unit_length(rest.substr(prefix->second)) ||
+           rest[prefix->second] == ' ' || is_tolerance_letter(rest[prefix->second]))) {
         v.value *= prefix->first;
         v.half_step *= prefix->first;
         rest = rest.substr(prefix->second);
@@ -378,15 +401,15 @@ std::optional<UnitInfo> find_unit(std::string_view symbol) {
     const UnitInfo* unit;
   };
   const Word words[] = {
-      {"lx", &lx},         {"lux", &lx},         {"klx", &klx},         {"klux", &klx},
-      {"kilolux", &klx},   {"fc", &fc},          {"ftc", &fc},          {"footcandle", &fc},
+      {"lx", &lx},          {"lux", &lx},         {"klx", &klx},         {"klux", &klx},
+      {"kilolux", &klx},    {"fc", &fc},          {"ftc", &fc},          {"footcandle", &fc},
       {"footcandles", &fc}, {"foot-candle", &fc}, {"foot-candles", &fc}, {"ohm", &ohm},
-      {"ohms", &ohm},      {"kohm", &kohm},      {"kohms", &kohm},      {"kiloohm", &kohm},
-      {"kiloohms", &kohm}, {"kilohm", &kohm},    {"kilohms", &kohm},    {"mohm", &mohm},
-      {"mohms", &mohm},    {"megohm", &mohm},    {"megohms", &mohm},    {"megaohm", &mohm},
-      {"megaohms", &mohm}, {"c", &degc},         {"degc", &degc},       {"deg.c", &degc},
-      {"celsius", &degc},  {"k", &kelvin},       {"kelvin", &kelvin},   {"f", &degf},
-      {"degf", &degf},     {"deg.f", &degf},     {"fahrenheit", &degf},
+      {"ohms", &ohm},       {"kohm", &kohm},      {"kohms", &kohm},      {"kiloohm", &kohm},
+      {"kiloohms", &kohm},  {"kilohm", &kohm},    {"kilohms", &kohm},    {"mohm", &mohm},
+      {"mohms", &mohm},     {"megohm", &mohm},    {"megohms", &mohm},    {"megaohm", &mohm},
+      {"megaohms", &mohm},  {"c", &degc},         {"degc", &degc},       {"deg.c", &degc},
+      {"celsius", &degc},   {"k", &kelvin},       {"kelvin", &kelvin},   {"f", &degf},
+      {"degf", &degf},      {"deg.f", &degf},     {"fahrenheit", &degf},
   };
   for (const auto& w : words)
     if (iequals(s, w.word)) return *w.unit;

@@ -11,8 +11,8 @@
 namespace photolot::detail {
 
 struct ScannedValue {
-  double value = 0;      // for resistance: ohm when self_scaled, else in the column's unit
-  double half_step = 0;  // half the place value of the last digit written, same unit as value
+  double value = 0;          // for resistance: ohm when self_scaled, else in the column's unit
+  double half_step = 0;      // half the place value of the last digit written, same unit as value
   bool self_scaled = false;  // the text had a prefix, letter code or unit of its own
 };
 
