@@ -27,7 +27,7 @@ struct FitOptions {
   double confidence = 0.95;       // for the reported intervals (Student t, n - p dof)
   int threads = 0;                // 0: all cores. Results do not depend on it.
 
-  std::string validate() const;   // empty when valid
+  std::string validate() const;  // empty when valid
 };
 
 UnitFit fit_unit(const Unit& unit, const FitOptions& options = {});
