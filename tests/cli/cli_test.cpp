@@ -267,6 +267,13 @@ TEST(Cli, MatchesGslLeastSquaresWithoutARobustLoss) {
   EXPECT_NEAR(u["gamma_ci95"][0].get<double>(), -c1 - half, 1e-7);
   EXPECT_NEAR(u["gamma_ci95"][1].get<double>(), -c1 + half, 1e-7);
   EXPECT_NEAR(u["rms_log_residual"].get<double>(), std::sqrt(sumsq / n), 1e-9);
+  // The table shows R10 with an engineering prefix, three significant digits (here tens of
+  // kilohms: one decimal); --ascii spells the unit "kohm".
+  CliRun ascii = run_cli({"analyze", path.string(), "--ascii", "--loss", "none"}, dir);
+  char expected[32];
+  std::snprintf(expected, sizeof expected, "%.1f kohm", std::exp(c0) / 1000);
+  EXPECT_NE(ascii.out.find(expected), std::string::npos) << expected << "\n" << ascii.out;
+  EXPECT_EQ(ascii.out.find("\xce\xa9"), std::string::npos);  // no "Ω" (U+03A9) in ASCII mode
   // R10's interval is exp(intercept +- t * se(intercept)).
   const double half0 = t * std::sqrt(cov00);
   EXPECT_NEAR(u["r10_ci95_ohm"][0].get<double>() / std::exp(c0 - half0), 1.0, 1e-7);
