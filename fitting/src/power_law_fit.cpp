@@ -12,6 +12,7 @@
 #include <optional>
 
 #include "photolot/fitting/fit.h"
+#include "photolot/fitting/models.h"
 #include "unit_points.h"
 
 namespace photolot::fitting {
@@ -319,13 +320,7 @@ bool solve(const detail::UnitPoints& pts, Loss loss, double scale, std::array<do
 
 UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
   const std::string invalid = options.validate();
-  if (!invalid.empty()) {
-    UnitFit f;
-    f.id = unit.id;
-    f.status = FitStatus::solver_failed;
-    f.message = "not fitted: invalid fit options: " + invalid;
-    return f;
-  }
+  if (!invalid.empty()) return detail::invalid_options_fit(unit, invalid);
   const detail::UnitPoints pts = detail::collect_points(unit);
   UnitFit f = detail::start_unit_fit(unit, pts, options, kParameters);
   if (!f.ok()) return f;
@@ -363,7 +358,12 @@ UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
 
 }  // namespace
 
-UnitFit fit_unit(const Unit& unit, const FitOptions& options) { return fit(unit, options, true); }
+UnitFit fit_unit(const Unit& unit, const FitOptions& options) {
+  // Over-range readings as one-sided terms need the extended fit (models.h).
+  if (options.over_range_bounds && needs_extended_fit(unit))
+    return fit_unit_extended(unit, options, power_law_with_bounds());
+  return fit(unit, options, true);
+}
 
 UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options) {
   return fit(unit, options, false);

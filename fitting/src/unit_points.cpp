@@ -89,4 +89,12 @@ UnitFit start_unit_fit(const Unit& unit, const UnitPoints& points, const FitOpti
   return f;
 }
 
+UnitFit invalid_options_fit(const Unit& unit, const std::string& why) {
+  UnitFit f;
+  f.id = unit.id;
+  f.status = FitStatus::solver_failed;
+  f.message = "not fitted: invalid fit options: " + why;
+  return f;
+}
+
 }  // namespace photolot::fitting::detail

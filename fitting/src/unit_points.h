@@ -43,4 +43,7 @@ UnitPoints collect_points(const Unit& unit);
 UnitFit start_unit_fit(const Unit& unit, const UnitPoints& points, const FitOptions& options,
                        int parameters = 2);
 
+// A UnitFit for a unit not fitted because the options are invalid (`why` from validate()).
+UnitFit invalid_options_fit(const Unit& unit, const std::string& why);
+
 }  // namespace photolot::fitting::detail

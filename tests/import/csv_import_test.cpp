@@ -576,7 +576,7 @@ TEST(CsvImport, RejectsFilesThatCannotBeReadAtAll) {
       {"# only a comment\n\n", 0, 0, "no data"},
       {std::string("unit,lux,ohm\nA,1\0,2\n", 20), 2, 4, "binary"},
       {"\xFF\xFE u\0n\0", 1, 1, "UTF-16"},
-      {"PK\x03\x04xl/workbook", 1, 1, "ZIP"},
+      {"PK\x03\x04[Content_Types].xml", 1, 1, "ZIP"},
       // A Latin-1 degree sign (0xB0) where UTF-8 needs two bytes.
       {"unit,lux,ohm,Temp [\xB0"
        "C]\nA,10,1,25\n",
