@@ -9,3 +9,13 @@ if(PHOTOLOT_SANITIZE)
     -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=undefined)
   target_link_options(photolot_warnings INTERFACE -fsanitize=address,undefined)
 endif()
+if(PHOTOLOT_FUZZ)
+  if(NOT CMAKE_CXX_COMPILER_ID STREQUAL "Clang")
+    message(FATAL_ERROR "PHOTOLOT_FUZZ needs clang (CC=clang-14 CXX=clang++-14)")
+  endif()
+  # Coverage for libFuzzer everywhere; the fuzz programs add -fsanitize=fuzzer for its main.
+  target_compile_options(photolot_warnings INTERFACE
+    -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer
+    -fno-sanitize-recover=undefined)
+  target_link_options(photolot_warnings INTERFACE -fsanitize=address,undefined)
+endif()
