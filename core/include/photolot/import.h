@@ -74,6 +74,12 @@ struct ImportResult {
   bool ok() const { return errors.empty(); }
 };
 
+// The largest bench log import_files reads, in bytes (256 MiB: some 10 million rows; a lot of
+// 10,000 units at 13 levels is about 3 MB). A larger file is refused with a FileError before
+// anything is read, so a wrong file picked by mistake (a disk image, a video) cannot exhaust
+// memory; split a larger log into several files of one lot.
+inline constexpr std::uint64_t kMaxLogFileBytes = std::uint64_t{256} << 20;
+
 // Import several files as one lot. Units in several files merge; exact duplicate rows are
 // dropped, conflicting ones reported.
 ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options = {});

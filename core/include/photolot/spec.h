@@ -90,6 +90,10 @@ struct SpecLoadResult {
   bool ok() const { return spec.has_value() && errors.empty(); }
 };
 
+// The largest spec file load_spec reads, in bytes; a spec is a page of text, so a larger file is
+// the wrong file and is refused before it is read.
+inline constexpr std::uint64_t kMaxSpecFileBytes = std::uint64_t{1} << 20;
+
 // Reads a spec file. Every problem found is reported, not only the first.
 SpecLoadResult load_spec(const std::string& path);
 // The same from memory; `name` stands in for the path in errors.

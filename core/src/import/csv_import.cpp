@@ -881,8 +881,14 @@ ImportResult import_files(const std::vector<std::string>& paths, const ImportOpt
         in.seekg(0, std::ios::end);
         const auto size = in.tellg();
         in.seekg(0, std::ios::beg);
-        content.resize(size > 0 ? static_cast<std::size_t>(size) : 0);
-        if (size > 0 && !in.read(content.data(), size)) problem = "could not be read";
+        if (size > 0 && static_cast<std::uint64_t>(size) > kMaxLogFileBytes) {
+          problem = fmt::format(
+              "is {} MiB, over the {} MiB a bench log may have; split it into several files",
+              static_cast<std::uint64_t>(size) >> 20, kMaxLogFileBytes >> 20);
+        } else {
+          content.resize(size > 0 ? static_cast<std::size_t>(size) : 0);
+          if (size > 0 && !in.read(content.data(), size)) problem = "could not be read";
+        }
       }
     }
     if (problem) {

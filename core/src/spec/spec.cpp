@@ -454,6 +454,17 @@ SpecLoadResult load_spec(const std::string& path) {
     result.errors.push_back({path, 0, 0, "cannot open the spec file"});
     return result;
   }
+  in.seekg(0, std::ios::end);
+  const auto size = in.tellg();
+  in.seekg(0, std::ios::beg);
+  if (size > 0 && static_cast<std::uint64_t>(size) > kMaxSpecFileBytes) {
+    SpecLoadResult result;
+    result.errors.push_back(
+        {path, 0, 0,
+         fmt::format("the spec file is {} bytes, over the {} a spec may have: not a spec file?",
+                     static_cast<std::uint64_t>(size), kMaxSpecFileBytes)});
+    return result;
+  }
   std::ostringstream content;
   content << in.rdbuf();
   return parse_spec(content.str(), path);
