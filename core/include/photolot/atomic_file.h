@@ -3,6 +3,11 @@
 // (fsync), and is then renamed over the target in one step. A reader sees either the old file
 // or the new one, never half of either. On any failure the old file is left as it was and the
 // temporary file is removed.
+//
+// A writer killed before its rename (SIGKILL, power cut) leaves its temporary file
+// ('.<name>.tmp-<pid>-<n>' beside the target) and the old target intact. The next write of the
+// same target removes such leftovers whose process no longer runs; a new temporary file never
+// collides with one, as it is created exclusively under the writer's own process id.
 #pragma once
 
 #include <filesystem>

@@ -4,11 +4,13 @@
 
 #include <fcntl.h>
 #include <fmt/format.h>
+#include <signal.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
 #include <atomic>
 #include <cerrno>
+#include <cstdlib>
 #include <cstring>
 
 namespace photolot {
@@ -43,6 +45,30 @@ class TempFile {
 
 std::atomic<unsigned> g_counter{0};
 
+// Temporary files of `name` ('.<name>.tmp-<pid>-<n>') left in `folder` by a writer that was
+// killed or lost power before its rename. One whose process is gone is removed; one whose
+// process still runs (another writer of the same file, right now) is left alone.
+void remove_stale_temporaries(const std::filesystem::path& folder, const std::string& name) {
+  const std::string prefix = "." + name + ".tmp-";
+  std::error_code ec;
+  std::filesystem::directory_iterator it(folder.empty() ? "." : folder, ec), end;
+  for (; !ec && it != end; it.increment(ec)) {
+    const std::string file = it->path().filename().string();
+    if (file.compare(0, prefix.size(), prefix) != 0) continue;
+    const std::string rest = file.substr(prefix.size());
+    const std::size_t dash = rest.find('-');
+    if (dash == 0 || dash == std::string::npos ||
+        rest.find_first_not_of("0123456789-") != std::string::npos)
+      continue;
+    const long pid = std::strtol(rest.substr(0, dash).c_str(), nullptr, 10);
+    if (pid <= 0 || pid == ::getpid()) continue;
+    if (::kill(static_cast<pid_t>(pid), 0) != 0 && errno == ESRCH) {
+      std::error_code ignored;
+      std::filesystem::remove(it->path(), ignored);
+    }
+  }
+}
+
 }  // namespace
 
 std::optional<WriteError> write_file_atomically(const std::filesystem::path& target,
@@ -65,6 +91,8 @@ std::optional<WriteError> write_file_atomically(const std::filesystem::path& tar
     mode = st.st_mode & 07777;
     keep_mode = true;
   }
+
+  remove_stale_temporaries(folder, name);
 
   int fd = -1;
   std::string temp_path;
