@@ -2,7 +2,11 @@
 
 #include <gtest/gtest.h>
 
+#include <sys/wait.h>
+
+#include <cstdlib>
 #include <fstream>
+#include <iterator>
 
 namespace photolot::test {
 
@@ -27,6 +31,17 @@ std::filesystem::path write_scratch_file(const std::string& name, const std::str
   auto path = dir / name;
   std::ofstream(path, std::ios::binary) << content;
   return path;
+}
+
+std::string read_file(const std::filesystem::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+}
+
+int run_in(const std::filesystem::path& dir, const std::string& command) {
+  const std::string line = "cd '" + dir.string() + "' && " + command;
+  const int status = std::system(line.c_str());
+  return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
 }
 
 }  // namespace photolot::test

@@ -16,4 +16,11 @@ std::filesystem::path scratch_dir();
 // Writes text to a file under scratch_dir() and returns its path.
 std::filesystem::path write_scratch_file(const std::string& name, const std::string& content);
 
+// The whole content of a file, as bytes ("" when it cannot be read).
+std::string read_file(const std::filesystem::path& path);
+
+// Runs `command` through the shell in folder `dir`; its exit code, or -1 when it did not exit
+// (killed by a signal).
+int run_in(const std::filesystem::path& dir, const std::string& command);
+
 }  // namespace photolot::test
