@@ -15,12 +15,12 @@ namespace photolot::fuzz {
 namespace {
 
 // A broken promise: say which, then abort so libFuzzer (or the test) stops on this input.
-#define PHOTOLOT_FUZZ_CHECK(cond)                                                   \
-  do {                                                                              \
-    if (!(cond)) {                                                                  \
+#define PHOTOLOT_FUZZ_CHECK(cond)                                                        \
+  do {                                                                                   \
+    if (!(cond)) {                                                                       \
       std::fprintf(stderr, "%s:%d: fuzz check failed: %s\n", __FILE__, __LINE__, #cond); \
-      std::abort();                                                                 \
-    }                                                                               \
+      std::abort();                                                                      \
+    }                                                                                    \
   } while (0)
 
 // What the importer promises of any lot it returns (core/include/photolot/lot.h, import.h):

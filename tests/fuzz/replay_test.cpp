@@ -4,6 +4,7 @@
 // file that crashed once fails this test if the bug comes back.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <filesystem>
 #include <fstream>
 #include <iterator>
