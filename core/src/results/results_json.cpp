@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <iterator>
+#include <tuple>
 #include <map>
 
 #include "photolot/results.h"
@@ -591,6 +592,20 @@ ReadResult from_json_text(std::string_view text) {
     // nlohmann's text starts "[json.exception.parse_error.101] parse error at line ..., column
     // ...: "; keep what follows, as the place is reported separately.
     if (auto pos = message.find(": "); pos != std::string::npos) message = message.substr(pos + 2);
+    result.error = ReadError{line, column, "not valid JSON: " + message};
+    return result;
+  } catch (const Json::out_of_range& e) {
+    // A number beyond a double (1e400): nlohmann names the token ("number overflow parsing
+    // '1e400'") but not its place; the first occurrence of the token is where it stands.
+    ReadResult result;
+    std::string message = e.what();
+    if (auto pos = message.find("] "); pos != std::string::npos) message = message.substr(pos + 2);
+    std::uint32_t line = 0, column = 0;
+    if (auto open = message.find('\''); open != std::string::npos) {
+      const std::string token = message.substr(open + 1, message.rfind('\'') - open - 1);
+      if (auto at = text.find(token); !token.empty() && at != std::string_view::npos)
+        std::tie(line, column) = line_column(text, at);
+    }
     result.error = ReadError{line, column, "not valid JSON: " + message};
     return result;
   }
