@@ -13,13 +13,13 @@ namespace {
 
 namespace fs = std::filesystem;
 
-struct Run {
+struct CliRun {
   int code = -1;
   std::string err;
 };
 
 // Runs photolot-cli with `args` (already shell-quoted where needed) in `dir`.
-Run cli(const std::string& args, const fs::path& dir) {
+CliRun cli(const std::string& args, const fs::path& dir) {
   const int code = run_in(dir, "'" PHOTOLOT_CLI_PATH "' " + args + " >/dev/null 2>stderr.txt");
   return {code, read_file(dir / "stderr.txt")};
 }
@@ -30,7 +30,7 @@ TEST(BadCli, C01MissingInputExitsOneAndLeavesTheOldOutput) {
   const fs::path dir = scratch_dir();
   std::ofstream(dir / "good.csv") << kGoodLog;
   std::ofstream(dir / "out.json") << kOld;
-  const Run r = cli("analyze good.csv nope.csv --json out.json", dir);
+  const CliRun r = cli("analyze good.csv nope.csv --json out.json", dir);
   EXPECT_EQ(r.code, 1);  // app/cli/exit_codes.h: a file could not be read
   EXPECT_NE(r.err.find("nope.csv"), std::string::npos) << r.err;
   EXPECT_NE(r.err.find("no output written"), std::string::npos) << r.err;
@@ -40,7 +40,7 @@ TEST(BadCli, C01MissingInputExitsOneAndLeavesTheOldOutput) {
 TEST(BadCli, C02BadRowsAreListedWithTheirPlaceAndTheLotIsAnalysed) {
   const fs::path dir = scratch_dir();
   std::ofstream(dir / "lot.csv") << kGoodLog << "G2,abc,1\n";
-  const Run r = cli("analyze lot.csv --json out.json", dir);
+  const CliRun r = cli("analyze lot.csv --json out.json", dir);
   EXPECT_EQ(r.code, 0);
   EXPECT_NE(r.err.find("lot.csv:10:4"), std::string::npos) << r.err;
   EXPECT_NE(read_file(dir / "out.json").find("\"G2\""), std::string::npos);
@@ -55,7 +55,7 @@ TEST(BadCli, C03UnknownOptionExitsTwo) {
 TEST(BadCli, C04OutputIntoAMissingFolderExitsOneNamingIt) {
   const fs::path dir = scratch_dir();
   std::ofstream(dir / "good.csv") << kGoodLog;
-  const Run r = cli("analyze good.csv --json no/such/folder/out.json", dir);
+  const CliRun r = cli("analyze good.csv --json no/such/folder/out.json", dir);
   EXPECT_EQ(r.code, 1);
   EXPECT_NE(r.err.find("no/such/folder/out.json"), std::string::npos) << r.err;
 }
@@ -64,7 +64,7 @@ TEST(BadCli, C05OutputOntoAFolderExitsOneAndTheFolderStays) {
   const fs::path dir = scratch_dir();
   std::ofstream(dir / "good.csv") << kGoodLog;
   fs::create_directory(dir / "out.json");
-  const Run r = cli("analyze good.csv --json out.json", dir);
+  const CliRun r = cli("analyze good.csv --json out.json", dir);
   EXPECT_EQ(r.code, 1);
   EXPECT_TRUE(fs::is_directory(dir / "out.json"));
 }

@@ -54,7 +54,7 @@ TEST(BadResults, R03BinaryFileIsRefusedAsNotJson) {
 }
 
 TEST(BadResults, R04OtherJsonIsRefusedAsNotAResultsDocument) {
-  expect_refused("{\"name\": \"a package manifest\"}\n", "not a photolot results document");
+  expect_refused("{\"name\": \"a package manifest\"}\n", "missing key \"format\"");
 }
 
 TEST(BadResults, R05NewerVersionIsRefusedNamingBoth) {
