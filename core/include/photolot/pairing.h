@@ -11,13 +11,12 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <nlohmann/json_fwd.hpp>
 #include <optional>
 #include <stop_token>
 #include <string>
 #include <string_view>
 #include <vector>
-
-#include <nlohmann/json_fwd.hpp>
 
 #include "photolot/curve.h"
 #include "photolot/fit_result.h"
@@ -33,9 +32,9 @@ std::string_view to_string(TrackingMode mode);  // "absolute", "trimmable"
 std::optional<TrackingMode> parse_tracking_mode(std::string_view text);
 
 struct PairOptions {
-  double lux_lo = 1.0;        // working range of the circuit, lx
+  double lux_lo = 1.0;  // working range of the circuit, lx
   double lux_hi = 1000.0;
-  double tolerance_pct = 2.0; // a pair qualifies when its tracking error is at most this
+  double tolerance_pct = 2.0;  // a pair qualifies when its tracking error is at most this
   TrackingMode mode = TrackingMode::absolute;
   // The matching runs on each unit's nearest candidates (0: every pair within tolerance); the
   // result is then checked against every pair within tolerance and repaired where needed.
@@ -67,7 +66,7 @@ struct UnitPair {
 struct UnpairedUnit {
   std::size_t index = 0;  // into LotFit::units
   std::string id;
-  std::string reason;     // one line, e.g. "no unit within tolerance"
+  std::string reason;                  // one line, e.g. "no unit within tolerance"
   std::optional<std::size_t> nearest;  // the closest eligible unit, when one was found
   std::string nearest_id;
   double nearest_error_pct = kNaN;
@@ -77,30 +76,30 @@ enum class ProofStatus : std::uint8_t { proved_optimal, not_proved };
 std::string_view to_string(ProofStatus status);  // "proved optimal", "not proved"
 
 struct PairingCounts {
-  std::size_t eligible = 0;          // indices given
-  std::size_t fitted = 0;            // of those, with a fitted curve
+  std::size_t eligible = 0;  // indices given
+  std::size_t fitted = 0;    // of those, with a fitted curve
   std::size_t pairs = 0;
   std::size_t unpaired = 0;
-  std::size_t tolerance_edges = 0;   // pairs within tolerance (the whole candidate graph)
-  std::size_t matched_edges = 0;     // edges the matching ran on (after the cap and repairs)
-  std::size_t components = 0;        // connected components of that graph with an edge
-  std::size_t largest_component = 0; // units in the largest
-  std::size_t rounds = 0;            // solve-and-check rounds
-  std::size_t repaired_edges = 0;    // edges added because the check found them improving
+  std::size_t tolerance_edges = 0;    // pairs within tolerance (the whole candidate graph)
+  std::size_t matched_edges = 0;      // edges the matching ran on (after the cap and repairs)
+  std::size_t components = 0;         // connected components of that graph with an edge
+  std::size_t largest_component = 0;  // units in the largest
+  std::size_t rounds = 0;             // solve-and-check rounds
+  std::size_t repaired_edges = 0;     // edges added because the check found them improving
 };
 
 struct Pairing {
   PairOptions options;
-  std::vector<UnitPair> pairs;        // sorted by tracking error, then ids
-  std::vector<UnpairedUnit> unpaired; // in index order
+  std::vector<UnitPair> pairs;         // sorted by tracking error, then ids
+  std::vector<UnpairedUnit> unpaired;  // in index order
   ProofStatus proof = ProofStatus::not_proved;
-  std::string proof_detail;           // why it is proved, or why not
-  double total_error_pct = 0;         // sum of the pairs' errors
+  std::string proof_detail;    // why it is proved, or why not
+  double total_error_pct = 0;  // sum of the pairs' errors
   // The total is within this of the smallest total among maximum-size pairings (integer
   // weights in the matching; docs/pairing.md).
   double total_error_rounding_bound_pct = 0;
   PairingCounts counts;
-  bool cancelled = false;             // stopped by the stop token: pairs are empty
+  bool cancelled = false;  // stopped by the stop token: pairs are empty
 };
 
 // Pairs the fitted units among `eligible` (indices into fit.units; units that are not fitted

@@ -14,8 +14,8 @@
 namespace lemon {
 
 template <typename G, typename I, typename V>
-  requires(std::is_enum_v<V> || std::is_same_v<V, SmartGraphBase::Arc>)
-struct DefaultMapSelector<G, I, V> {
+requires(std::is_enum_v<V> ||
+         std::is_same_v<V, SmartGraphBase::Arc>) struct DefaultMapSelector<G, I, V> {
   typedef VectorMap<G, I, V> Map;
 };
 

@@ -4,6 +4,8 @@
 #include "photolot/pairing.h"
 
 #include <fmt/format.h>
+#include <lemon/matching.h>
+#include <lemon/smart_graph.h>
 
 #include <algorithm>
 #include <cassert>
@@ -12,11 +14,7 @@
 #include <limits>
 #include <numeric>
 
-#include <lemon/smart_graph.h>
-
 #include "lemon_cxx20.h"
-
-#include <lemon/matching.h>
 
 namespace photolot {
 namespace {
@@ -57,11 +55,11 @@ double ln_diff_variance(const Curve& c, double e1, double e2) {
 // The participating units, reduced to what the search needs.
 struct Nodes {
   TrackingMode mode = TrackingMode::absolute;
-  std::vector<std::size_t> unit;     // node -> index into LotFit::units
+  std::vector<std::size_t> unit;  // node -> index into LotFit::units
   std::vector<const Curve*> curve;
-  std::vector<double> x, y;          // plane point: absolute (ln R_lo, ln R_hi); trimmable (u, 0)
-  std::vector<std::int32_t> row;     // node -> row of grid_values, -1 for a power law
-  std::vector<double> grid_values;   // ln R on the grid, rows of grid size
+  std::vector<double> x, y;         // plane point: absolute (ln R_lo, ln R_hi); trimmable (u, 0)
+  std::vector<std::int32_t> row;    // node -> row of grid_values, -1 for a power law
+  std::vector<double> grid_values;  // ln R on the grid, rows of grid size
   std::size_t grid_size = 0;
 
   std::size_t size() const { return unit.size(); }
@@ -98,8 +96,7 @@ struct Nodes {
   }
 };
 
-Nodes make_nodes(const LotFit& fit, const std::vector<std::size_t>& fitted,
-                 const PairOptions& o) {
+Nodes make_nodes(const LotFit& fit, const std::vector<std::size_t>& fitted, const PairOptions& o) {
   Nodes n;
   n.mode = o.mode;
   const std::vector<double> lux = grid_lux(o);
@@ -212,18 +209,14 @@ bool for_each_tolerance_edge(const Nodes& nodes, const CellGrid& grid, double to
 struct Edge {
   std::uint32_t i, j;  // i < j
   double error_pct;
-  std::int64_t cost;   // error_pct in integer steps of the cost quantum
+  std::int64_t cost;  // error_pct in integer steps of the cost quantum
 };
 
-std::uint64_t edge_key(std::uint32_t i, std::uint32_t j) {
-  return (std::uint64_t(i) << 32) | j;
-}
+std::uint64_t edge_key(std::uint32_t i, std::uint32_t j) { return (std::uint64_t(i) << 32) | j; }
 
 struct DisjointSets {
   std::vector<std::uint32_t> parent;
-  explicit DisjointSets(std::size_t n) : parent(n) {
-    std::iota(parent.begin(), parent.end(), 0u);
-  }
+  explicit DisjointSets(std::size_t n) : parent(n) { std::iota(parent.begin(), parent.end(), 0u); }
   std::uint32_t find(std::uint32_t a) {
     while (parent[a] != a) a = parent[a] = parent[parent[a]];
     return a;
@@ -240,7 +233,7 @@ struct Solution {
   std::vector<std::int64_t> mate;       // node or -1
   std::vector<std::int64_t> potential;  // y_u
   struct Blossom {
-    std::int64_t value;                 // z_B
+    std::int64_t value;  // z_B
     std::vector<std::uint32_t> members;
   };
   std::vector<Blossom> blossoms;
@@ -356,8 +349,10 @@ std::string fmt_pct(double v) { return fmt::format("{:.3f} %", v); }
 // ---------------------------------------------------------------------------------------------
 std::string_view to_string(TrackingMode mode) {
   switch (mode) {
-    case TrackingMode::absolute: return "absolute";
-    case TrackingMode::trimmable: return "trimmable";
+    case TrackingMode::absolute:
+      return "absolute";
+    case TrackingMode::trimmable:
+      return "trimmable";
   }
   return "?";
 }
@@ -370,8 +365,10 @@ std::optional<TrackingMode> parse_tracking_mode(std::string_view text) {
 
 std::string_view to_string(ProofStatus status) {
   switch (status) {
-    case ProofStatus::proved_optimal: return "proved optimal";
-    case ProofStatus::not_proved: return "not proved";
+    case ProofStatus::proved_optimal:
+      return "proved optimal";
+    case ProofStatus::not_proved:
+      return "not proved";
   }
   return "?";
 }
@@ -454,8 +451,12 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     if (f.ok()) {
       fitted.push_back(u);
     } else {
-      out.unpaired.push_back({u, f.id, fmt::format("no fitted curve ({})", to_string(f.status)),
-                              std::nullopt, {}, kNaN});
+      out.unpaired.push_back({u,
+                              f.id,
+                              fmt::format("no fitted curve ({})", to_string(f.status)),
+                              std::nullopt,
+                              {},
+                              kNaN});
     }
   }
   out.counts.fitted = fitted.size();
@@ -625,10 +626,10 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
         out.counts.repaired_edges, out.counts.repaired_edges == 1 ? "" : "s");
   } else {
     out.proof = ProofStatus::not_proved;
-    out.proof_detail = why_not.empty()
-                           ? fmt::format("improving pairs remained after {} repair rounds",
-                                         o.max_repair_rounds)
-                           : why_not;
+    out.proof_detail =
+        why_not.empty()
+            ? fmt::format("improving pairs remained after {} repair rounds", o.max_repair_rounds)
+            : why_not;
   }
 
   // 3. The result.
@@ -639,8 +640,8 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     const UnitFit& a = fit.units[nodes.unit[v]];
     const UnitFit& b = fit.units[nodes.unit[w]];
     const TrackingError te = tracking_error(a.curve, b.curve, o);
-    out.pairs.push_back({nodes.unit[v], nodes.unit[w], a.id, b.id, te.error_pct, te.sigma_pct,
-                         te.worst_lux});
+    out.pairs.push_back(
+        {nodes.unit[v], nodes.unit[w], a.id, b.id, te.error_pct, te.sigma_pct, te.worst_lux});
     out.total_error_pct += te.error_pct;
     ++pairs;
   }
@@ -673,9 +674,9 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
       u.nearest_error_pct = nearest_err[v];
       const std::string mate_id =
           sol.mate[w] >= 0 ? fit.units[nodes.unit[std::size_t(sol.mate[w])]].id : "";
-      u.reason = fmt::format(
-          "every unit within tolerance is in a pair; nearest {} at {}{}", u.nearest_id,
-          fmt_pct(u.nearest_error_pct), mate_id.empty() ? "" : fmt::format(", paired with {}", mate_id));
+      u.reason = fmt::format("every unit within tolerance is in a pair; nearest {} at {}{}",
+                             u.nearest_id, fmt_pct(u.nearest_error_pct),
+                             mate_id.empty() ? "" : fmt::format(", paired with {}", mate_id));
     } else if (n < 2) {
       u.reason = "no other unit to pair with";
     } else {
