@@ -307,9 +307,8 @@ class BlossomForest {
     std::vector<std::uint32_t> nodes;
     for (std::uint32_t v = 0; v < n; ++v)
       if (sol.has_position[v]) nodes.push_back(v);
-    std::sort(nodes.begin(), nodes.end(), [&](std::uint32_t a, std::uint32_t b) {
-      return sol.position[a] < sol.position[b];
-    });
+    std::sort(nodes.begin(), nodes.end(),
+              [&](std::uint32_t a, std::uint32_t b) { return sol.position[a] < sol.position[b]; });
     std::size_t levels = 1;
     while ((std::size_t(1) << levels) < bl.size() + 1) ++levels;
     up_.assign(levels, std::vector<std::int32_t>(bl.size(), -1));
@@ -679,6 +678,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     for (const Edge& e : edges) keys.push_back(edge_key(e.i, e.j));
     std::sort(keys.begin(), keys.end());
     touched.clear();
+    std::vector<char> near_violation(n, 0);
     for (const Edge& e : check.violations) {
       if (std::binary_search(keys.begin(), keys.end(), edge_key(e.i, e.j))) {
         why_not = fmt::format(
@@ -686,12 +686,25 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
             nodes.unit[e.i], nodes.unit[e.j]);
         break;
       }
-      edges.push_back(e);
-      touched.push_back(e.i);
-      touched.push_back(e.j);
+      near_violation[e.i] = near_violation[e.j] = 1;
     }
     if (!why_not.empty()) break;
-    out.counts.repaired_edges += check.violations.size();
+    // Each round solves a whole component again, so add more than the violating pairs: every
+    // pair within tolerance at their units, which makes a further round rare.
+    const std::size_t before = edges.size();
+    if (!for_each_tolerance_edge(
+            nodes, grid, tol_ln, o.tolerance_pct,
+            [&](std::uint32_t i, std::uint32_t j, double err) {
+              if ((near_violation[i] || near_violation[j]) &&
+                  !std::binary_search(keys.begin(), keys.end(), edge_key(i, j))) {
+                edges.push_back({i, j, err, costing.cost(err)});
+                touched.push_back(i);
+                touched.push_back(j);
+              }
+            },
+            stop))
+      return cancelled();
+    out.counts.repaired_edges += edges.size() - before;
   }
   out.counts.rounds = std::min<std::size_t>(round + 1, std::size_t(o.max_repair_rounds));
   out.counts.matched_edges = edges.size();
