@@ -411,3 +411,21 @@ TEST(Pairing, StopsWhenAskedAndSaysSo) {
   EXPECT_TRUE(p.pairs.empty());
   EXPECT_EQ(p.proof, ProofStatus::not_proved);
 }
+
+TEST(Pairing, ReportsProgressUpToItsTotal) {
+  std::mt19937_64 rng(2);
+  const LotFit fit = random_plane_lot(rng, 300, 0.05);
+  std::size_t last_done = 0, last_total = 0, calls = 0;
+  bool monotone = true;
+  const Pairing p =
+      photolot::pair_units(fit, PairOptions{}, [&](std::size_t done, std::size_t total) {
+        monotone = monotone && done >= last_done && done <= total;
+        last_done = done;
+        last_total = total;
+        ++calls;
+      });
+  EXPECT_FALSE(p.cancelled);
+  EXPECT_GT(calls, 1u);
+  EXPECT_TRUE(monotone);
+  EXPECT_EQ(last_done, last_total);
+}

@@ -538,8 +538,10 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   const Nodes nodes = make_nodes(fit, fitted, o);
   const std::size_t n = nodes.size();
   const std::size_t total_work = 3 * n + 1;
+  std::size_t reported = 0;  // never goes back, though a repair round solves again
   auto report = [&](std::size_t done) {
-    if (progress) progress(std::min(done, total_work), total_work);
+    reported = std::max(reported, std::min(done, total_work));
+    if (progress) progress(reported, total_work);
   };
   auto cancelled = [&]() {
     Pairing c;
