@@ -26,8 +26,12 @@ struct FitOptions {
   double min_span_decades = 1.0;  // log10(E_max / E_min) needed
   double confidence = 0.95;       // for the reported intervals (Student t, n - p dof)
   int threads = 0;                // 0: all cores. Results do not depend on it.
+  // Over-range readings under light: false leaves them out of the curve (counted and flagged);
+  // true hands such units to the extended fit (fitting/models.h: power law, the readings as
+  // one-sided terms), so that none is dropped.
+  bool over_range_bounds = false;
 
-  std::string validate() const;   // empty when valid
+  std::string validate() const;  // empty when valid
 };
 
 UnitFit fit_unit(const Unit& unit, const FitOptions& options = {});
@@ -40,5 +44,19 @@ LotFit fit_lot(const Lot& lot, const FitOptions& options = {}, const ProgressFn&
 // The closed-form (ordinary least squares, non-robust) power-law fit in log space; the solver's
 // starting point and the benchmark's baseline.
 UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options = {});
+
+// A one-line description of the fit the options ask for (model, loss, scale, interval
+// method), as stored in LotFit::method.
+std::string describe(const FitOptions& options);
+
+// The fitted resistance at an illuminance with its confidence interval (Student t on the
+// unit's dof, from the curve's covariance): an interval for the curve itself, not for a new
+// reading. All NaN for a unit that was not fitted; lo and hi NaN when the unit has no dof.
+struct OhmInterval {
+  double ohm = kNaN;
+  double lo_ohm = kNaN;
+  double hi_ohm = kNaN;
+};
+OhmInterval interval_at(const UnitFit& unit_fit, double lux, double confidence = 0.95);
 
 }  // namespace photolot::fitting
