@@ -10,9 +10,12 @@
 
 #include <atomic>
 #include <cstdio>
+#include <optional>
 
+#include "acceptance_text.h"
 #include "commands.h"
 #include "exit_codes.h"
+#include "photolot/acceptance.h"
 #include "photolot/atomic_file.h"
 #include "photolot/results.h"
 #include "table.h"
@@ -41,6 +44,16 @@ CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config) {
                   "Input messages to show on stderr (0: all)")
       ->capture_default_str()
       ->group(out);
+  const char* acc = "Spec and acceptance";
+  cmd->add_option("--spec", config.spec_path,
+                  "Judge each unit and the lot against this purchase spec (TOML, "
+                  "docs/spec-format.md)")
+      ->group(acc);
+  cmd->add_option("--lot-size", config.lot_size,
+                  "Units in the lot, for the ISO 2859-1 sampling plan (overrides the spec's "
+                  "inspection.lot_size)")
+      ->check(CLI::PositiveNumber)
+      ->group(acc);
   add_import_options(*cmd, config.import);
   add_fit_options(*cmd, config.fit);
   return cmd;
@@ -76,6 +89,25 @@ int run_analyze(AnalyzeConfig& config) {
     return kExitUsageError;
   }
 
+  // The spec is read first: nothing is analysed against a spec that did not load.
+  std::optional<Spec> spec;
+  if (config.lot_size != 0 && config.spec_path.empty()) {
+    print_err(
+        "photolot-cli analyze: --lot-size needs --spec (the plan comes from the spec's AQL "
+        "and inspection level)\n");
+    return kExitUsageError;
+  }
+  if (!config.spec_path.empty()) {
+    SpecLoadResult loaded = load_spec(config.spec_path);
+    if (!loaded.ok()) {
+      for (const auto& e : loaded.errors)
+        print_err(diagnostic_line(e.file, e.line, e.column, "error", e.message));
+      print_err("photolot-cli analyze: the spec did not load; no output written\n");
+      return kExitInputError;
+    }
+    spec = std::move(loaded.spec);
+  }
+
   ImportResult imported = import_files(config.files, config.import.options);
   if (!imported.ok()) {
     for (const auto& e : imported.errors)
@@ -97,6 +129,28 @@ int run_analyze(AnalyzeConfig& config) {
   doc.options["import"] = import_options_json(config.import.options);
   doc.options["fit"] = fit_options_json(config.fit);
 
+  // Lot statistics always; verdicts and the disposition with a spec.
+  StatisticsOptions stats_options;
+  if (spec) {
+    stats_options.coverage = spec->tolerance_coverage;
+    stats_options.confidence = spec->tolerance_confidence;
+  }
+  const LotStatistics stats = lot_statistics(fit, stats_options, spec ? &*spec : nullptr);
+  doc.sections["lot_statistics"] = results::Json(lot_statistics_json(stats));
+  std::vector<UnitVerdict> verdicts;
+  std::optional<Acceptance> acceptance;
+  if (spec) {
+    verdicts = judge(fit, *spec);
+    acceptance =
+        decide(*spec, verdicts,
+               config.lot_size ? std::optional<std::size_t>(config.lot_size) : std::nullopt);
+    doc.options["spec"] = results::Json(spec_json(*spec));
+    doc.sections["acceptance"] = results::Json(acceptance_json(*acceptance));
+    results::Json per_unit = results::Json::array();
+    for (const auto& v : verdicts) per_unit.push_back(results::Json(verdict_json(v)));
+    doc.sections["verdicts"] = per_unit;
+  }
+
   // Build every output before writing any, then write each to a temporary file and rename it.
   std::vector<std::pair<std::string, std::string>> outputs;
   if (!config.json_path.empty()) outputs.emplace_back(config.json_path, results::to_json_text(doc));
@@ -113,6 +167,8 @@ int run_analyze(AnalyzeConfig& config) {
   std::string text;
   if (!config.quiet) text += unit_table(fit.units, style) + "\n";
   text += lot_summary(lot, fit);
+  text += statistics_lines(stats, style);
+  if (spec) text += acceptance_lines(*spec, verdicts, *acceptance, config.max_messages, style);
   if (!config.json_path.empty()) text += fmt::format("results document: {}\n", config.json_path);
   if (!config.units_csv_path.empty())
     text += fmt::format("unit table: {}\n", config.units_csv_path);

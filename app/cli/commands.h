@@ -24,6 +24,9 @@ struct AnalyzeConfig {
   bool quiet = false;           // --quiet: counts only, no table
   bool ascii = false;           // --ascii
   std::size_t max_messages = 20;
+
+  std::string spec_path;     // --spec: judge units and the lot against this purchase spec
+  std::size_t lot_size = 0;  // --lot-size (0: the spec's inspection.lot_size)
 };
 CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config);
 int run_analyze(AnalyzeConfig& config);
