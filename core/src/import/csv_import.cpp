@@ -474,6 +474,17 @@ class Builder {
     const DetectedColumn* temp_col = p.temp == kNone ? nullptr : &layout.columns[p.temp];
     const std::size_t needed = std::max({p.lux, p.ohm, p.id == kNone ? 0 : p.id}) + 1;
     CsvReader reader(text, layout.delimiter, p.data_offset, p.data_line, p.data_line_start);
+    {
+      // Room for one reading per line left, so the list is not copied as it grows.
+      std::size_t lines = 0;
+      const char* at = text.data() + p.data_offset;
+      const char* end = text.data() + text.size();
+      while ((at = static_cast<const char*>(std::memchr(at, '\n', end - at))) != nullptr) {
+        ++lines;
+        ++at;
+      }
+      pending_.reserve(pending_.size() + lines + 1);
+    }
     std::vector<Field> fields;
     std::string scratch_id, scratch;
     std::size_t row_errors = 0, suppressed = 0;
@@ -544,7 +555,7 @@ class Builder {
           reject(&fields[p.id], 0, 0, "missing unit id");
           continue;
         }
-        if (detail::invalid_utf8_at(id) != std::string_view::npos) {
+        if (!reader.record_ascii() && detail::invalid_utf8_at(id) != std::string_view::npos) {
           reject(&fields[p.id], 0, 0, "unit id is not UTF-8 text");
           continue;
         }
@@ -583,7 +594,9 @@ class Builder {
       r.lux = lux;
       r.source = SourceRef{file_index, line};
       ReadingExtra extra;
-      extra.column = detail::column_of(ohm_field.line_start, ohm_field.start);
+      extra.column = reader.record_ascii()  // one line of ASCII: a column is a byte offset
+                         ? static_cast<std::uint32_t>(ohm_field.start - ohm_field.line_start) + 1
+                         : detail::column_of(ohm_field.line_start, ohm_field.start);
       if (ohm_text.empty()) {
         reject(&ohm_field, 0, 0, "missing resistance");
         continue;
