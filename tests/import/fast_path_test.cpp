@@ -15,6 +15,7 @@
 #include <string>
 
 #include "../../core/src/import/csv_reader.h"
+#include "../../core/src/units/value_scan.h"
 #include "photolot/import.h"
 #include "photolot/synth.h"
 #include "photolot/units.h"
@@ -113,6 +114,14 @@ TEST(FastPath, ParsesPlainNumbersExactlyAsFromChars) {
     }
     ASSERT_TRUE(got.has_value()) << s;
     EXPECT_TRUE(same_double(*got, want)) << s << ": " << *got << " vs " << want;
+    // The importer's inline plain-number path, where it applies, gives the same value and step.
+    detail::ScannedValue plain;
+    if (detail::scan_plain(s, '.', plain)) {
+      const auto full = detail::scan_number(s, '.', false);
+      ASSERT_TRUE(full.has_value()) << s;
+      EXPECT_TRUE(same_double(plain.value, want)) << s;
+      EXPECT_TRUE(same_double(plain.half_step, full->half_step)) << s;
+    }
     std::string comma = s;
     for (char& c : comma)
       if (c == '.') c = ',';

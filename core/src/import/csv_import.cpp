@@ -568,7 +568,11 @@ class Builder {
         reject(&lux_field, 0, 0, "missing illuminance");
         continue;
       }
-      const auto lux_value = detail::scan_quantity(lux_text, decimal, Quantity::illuminance);
+      std::optional<detail::ScannedValue> lux_value;
+      if (detail::ScannedValue plain; detail::scan_plain(lux_text, decimal, plain))
+        lux_value = plain;
+      else
+        lux_value = detail::scan_quantity(lux_text, decimal, Quantity::illuminance);
       if (!lux_value) {
         reject(&lux_field, 0, 0,
                detail::is_non_finite_word(lux_text)
@@ -624,7 +628,11 @@ class Builder {
                fmt::format("resistance '{}' is below the meter's range; not used", ohm_text));
         continue;
       } else {
-        const auto value = detail::scan_resistance(ohm_text, decimal);
+        std::optional<detail::ScannedValue> value;
+        if (detail::ScannedValue plain; detail::scan_plain(ohm_text, decimal, plain))
+          value = plain;
+        else
+          value = detail::scan_resistance(ohm_text, decimal);
         if (!value) {
           reject(&ohm_field, 0, 0,
                  detail::is_non_finite_word(ohm_text)
@@ -651,7 +659,11 @@ class Builder {
         const Field& tf = fields[p.temp];
         const std::string_view t = detail::field_text(tf, scratch);
         if (!t.empty()) {
-          const auto tv = detail::scan_quantity(t, decimal, Quantity::temperature);
+          std::optional<detail::ScannedValue> tv;
+          if (detail::ScannedValue plain; detail::scan_plain(t, decimal, plain))
+            tv = plain;
+          else
+            tv = detail::scan_quantity(t, decimal, Quantity::temperature);
           const double temp_c =
               tv ? (tv->self_scaled ? tv->value : tv->value * temp_col->scale + temp_col->offset)
                  : kNaN;

@@ -40,13 +40,7 @@ constexpr std::string_view kOhmSign = "\xE2\x84\xA6";  // U+2126 OHM SIGN
 constexpr std::string_view kMicro = "\xC2\xB5";        // U+00B5 MICRO SIGN
 constexpr std::string_view kMu = "\xCE\xBC";           // U+03BC GREEK SMALL LETTER MU
 
-// 10^0 .. 10^22: every one exactly representable in a double.
-constexpr std::array<double, 23> kExactPowersOfTen = [] {
-  std::array<double, 23> t{};
-  double v = 1;
-  for (std::size_t i = 0; i < t.size(); ++i, v *= 10) t[i] = v;
-  return t;
-}();
+using detail::kExactPowersOfTen;
 
 // 10^e for the rounding step of a value as written (not needed exact).
 double pow10i(int e) {
