@@ -39,7 +39,7 @@ inline constexpr std::array<double, 23> kExactPowersOfTen = [] {
 // at most 19 digits and a rounding step within 10^+-22. Gives the value and half step the full
 // scanners give (the same single correctly rounded operation), self_scaled false; false for
 // anything else, which the full scanners then read.
-inline bool scan_plain(std::string_view t, char decimal, ScannedValue& out) {
+[[gnu::always_inline]] inline bool scan_plain(std::string_view t, char decimal, ScannedValue& out) {
   const char* p = t.data();
   const char* const end = p + t.size();
   bool negative = false;
