@@ -10,24 +10,24 @@
 namespace photolot::fitting {
 
 std::string describe(const FitOptions& o) {
-  const double meter = std::log1p(o.meter_accuracy_pct / 100.0);
+  const double scale = std::log1p(o.meter_accuracy_pct / 100.0);
   std::string loss;
   switch (o.loss) {
     case Loss::huber:
     case Loss::cauchy:
       loss = fmt::format(
-          "{} loss with its corner at max(ln(1 + {:g} %) = {:.4g}, 3 x the unit's scatter) in "
-          "ln R, outliers beyond {:g} x max(meter, scatter); covariance: Huber's H1 estimate",
-          to_string(o.loss), o.meter_accuracy_pct, meter, o.outlier_threshold);
+          "{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
+          to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
       break;
     case Loss::none:
-      loss = "ordinary least squares (no robust loss); covariance: s^2 (X'X)^-1";
+      loss = "ordinary least squares (no robust loss)";
       break;
   }
   return fmt::format(
-      "power law ln R = ln R10 - gamma ln(E / 10 lx) per unit; {}; {:g} % intervals from "
-      "Student t on n - 2 dof{}",
-      loss, 100.0 * o.confidence,
+      "power law ln R = ln R10 - gamma ln(E / 10 lx) per unit; {}; covariance {}; {:g} % "
+      "intervals from Student t on n - 2 dof{}",
+      loss, o.loss == Loss::none ? "s^2 (X'X)^-1" : "Huber's H1 estimate from psi",
+      100.0 * o.confidence,
       o.over_range_bounds ? "; units with over-range readings: extended fit, the readings as "
                             "one-sided terms (docs/models.md)"
                           : "");

@@ -26,6 +26,7 @@
 #include <sstream>
 
 #include "photolot/acceptance.h"
+#include "photolot/units.h"
 
 namespace photolot {
 
@@ -111,33 +112,6 @@ std::string Spec::validate() const {
 
 namespace {
 
-// A resistance written as a number with an optional SI prefix and unit: "15k", "1.5 M",
-// "220kohm", "4.7 MΩ". Returns nullopt for anything else.
-std::optional<double> parse_ohm_text(std::string_view s) {
-  auto trim = [](std::string_view t) {
-    while (!t.empty() && (t.front() == ' ' || t.front() == '\t')) t.remove_prefix(1);
-    while (!t.empty() && (t.back() == ' ' || t.back() == '\t')) t.remove_suffix(1);
-    return t;
-  };
-  s = trim(s);
-  double value = 0;
-  const auto [end, ec] = std::from_chars(s.data(), s.data() + s.size(), value);
-  if (ec != std::errc{} || !std::isfinite(value)) return std::nullopt;
-  std::string_view rest = trim(s.substr(static_cast<std::size_t>(end - s.data())));
-  for (std::string_view unit : {"ohm", "Ohm", "\u03a9", "\u2126"}) {
-    if (rest.ends_with(unit)) {
-      rest = trim(rest.substr(0, rest.size() - unit.size()));
-      break;
-    }
-  }
-  if (rest.empty()) return value;
-  if (rest == "m") return value * 1e-3;
-  if (rest == "k" || rest == "K") return value * 1e3;
-  if (rest == "M") return value * 1e6;
-  if (rest == "G") return value * 1e9;
-  return std::nullopt;
-}
-
 class Reader {
  public:
   explicit Reader(std::string file) : file_(std::move(file)) {}
@@ -221,10 +195,10 @@ class Reader {
     if (node == nullptr) return kNaN;
     if (node->is_string()) {
       const std::string& text = node->as_string()->get();
-      if (auto v = parse_ohm_text(text)) return *v;
+      if (auto v = parse_resistance(text); v && std::isfinite(*v)) return *v;
       error(node->source(),
             fmt::format("{}.{} = \"{}\" is not a resistance (write ohm as a number, or with an SI "
-                        "prefix such as \"15k\" or \"1.5M\")",
+                        "prefix or letter code such as \"15k\", \"1.5M\" or \"4k7\")",
                         table_name, key, text));
       return kNaN;
     }
