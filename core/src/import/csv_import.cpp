@@ -474,6 +474,17 @@ class Builder {
     const DetectedColumn* temp_col = p.temp == kNone ? nullptr : &layout.columns[p.temp];
     const std::size_t needed = std::max({p.lux, p.ohm, p.id == kNone ? 0 : p.id}) + 1;
     CsvReader reader(text, layout.delimiter, p.data_offset, p.data_line, p.data_line_start);
+    {
+      // Room for one reading per line left, so the list is not copied as it grows.
+      std::size_t lines = 0;
+      const char* at = text.data() + p.data_offset;
+      const char* end = text.data() + text.size();
+      while ((at = static_cast<const char*>(std::memchr(at, '\n', end - at))) != nullptr) {
+        ++lines;
+        ++at;
+      }
+      pending_.reserve(pending_.size() + lines + 1);
+    }
     std::vector<Field> fields;
     std::string scratch_id, scratch;
     std::size_t row_errors = 0, suppressed = 0;
@@ -544,7 +555,7 @@ class Builder {
           reject(&fields[p.id], 0, 0, "missing unit id");
           continue;
         }
-        if (detail::invalid_utf8_at(id) != std::string_view::npos) {
+        if (!reader.record_ascii() && detail::invalid_utf8_at(id) != std::string_view::npos) {
           reject(&fields[p.id], 0, 0, "unit id is not UTF-8 text");
           continue;
         }
@@ -557,7 +568,11 @@ class Builder {
         reject(&lux_field, 0, 0, "missing illuminance");
         continue;
       }
-      const auto lux_value = detail::scan_quantity(lux_text, decimal, Quantity::illuminance);
+      std::optional<detail::ScannedValue> lux_value;
+      if (detail::ScannedValue plain; detail::scan_plain(lux_text, decimal, plain))
+        lux_value = plain;
+      else
+        lux_value = detail::scan_quantity(lux_text, decimal, Quantity::illuminance);
       if (!lux_value) {
         reject(&lux_field, 0, 0,
                detail::is_non_finite_word(lux_text)
@@ -583,7 +598,9 @@ class Builder {
       r.lux = lux;
       r.source = SourceRef{file_index, line};
       ReadingExtra extra;
-      extra.column = detail::column_of(ohm_field.line_start, ohm_field.start);
+      extra.column = reader.record_ascii()  // one line of ASCII: a column is a byte offset
+                         ? static_cast<std::uint32_t>(ohm_field.start - ohm_field.line_start) + 1
+                         : detail::column_of(ohm_field.line_start, ohm_field.start);
       if (ohm_text.empty()) {
         reject(&ohm_field, 0, 0, "missing resistance");
         continue;
@@ -611,7 +628,11 @@ class Builder {
                fmt::format("resistance '{}' is below the meter's range; not used", ohm_text));
         continue;
       } else {
-        const auto value = detail::scan_resistance(ohm_text, decimal);
+        std::optional<detail::ScannedValue> value;
+        if (detail::ScannedValue plain; detail::scan_plain(ohm_text, decimal, plain))
+          value = plain;
+        else
+          value = detail::scan_resistance(ohm_text, decimal);
         if (!value) {
           reject(&ohm_field, 0, 0,
                  detail::is_non_finite_word(ohm_text)
@@ -638,7 +659,11 @@ class Builder {
         const Field& tf = fields[p.temp];
         const std::string_view t = detail::field_text(tf, scratch);
         if (!t.empty()) {
-          const auto tv = detail::scan_quantity(t, decimal, Quantity::temperature);
+          std::optional<detail::ScannedValue> tv;
+          if (detail::ScannedValue plain; detail::scan_plain(t, decimal, plain))
+            tv = plain;
+          else
+            tv = detail::scan_quantity(t, decimal, Quantity::temperature);
           const double temp_c =
               tv ? (tv->self_scaled ? tv->value : tv->value * temp_col->scale + temp_col->offset)
                  : kNaN;

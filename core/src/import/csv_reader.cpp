@@ -2,7 +2,17 @@
 
 #include <cstring>
 
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
+
 namespace photolot::detail {
+
+namespace {
+thread_local bool simple_records_enabled = true;
+}
+
+void set_simple_records_enabled(bool enabled) { simple_records_enabled = enabled; }
 
 std::string_view unquote_text(const Field& field, std::string& scratch) {
   const std::string_view s = field.raw;
@@ -64,7 +74,12 @@ std::size_t invalid_utf8_at(std::string_view text) {
 
 CsvReader::CsvReader(std::string_view text, char delimiter, std::size_t offset, std::uint32_t line,
                      std::size_t line_start)
-    : text_(text), delimiter_(delimiter), pos_(offset), line_(line), line_start_(line_start) {
+    : text_(text),
+      delimiter_(delimiter),
+      pos_(offset),
+      line_(line),
+      line_start_(line_start),
+      simple_enabled_(simple_records_enabled) {
   stop_[static_cast<unsigned char>(delimiter)] = true;
   stop_['\r'] = true;
   stop_['\n'] = true;
@@ -80,6 +95,91 @@ void CsvReader::skip_line() {
   }
   ++line_;
   line_start_ = pos_;
+}
+
+// The usual record: one line with no quote character. Splits it at the delimiter into exactly
+// the fields the general loop below would make, and notes whether it is all ASCII. Returns
+// false, with nothing changed but `fields`, when the line holds a quote.
+bool CsvReader::next_simple(std::vector<Field>& fields) {
+  const char* base = text_.data();
+  const std::size_t n = text_.size();
+  const char* const line_start = base + line_start_;
+  const std::uint32_t line = line_;
+  std::size_t begin = pos_;  // of the field being read
+  std::size_t p = pos_;
+  unsigned high = 0;  // bit 7 (scalar) or any bit (SIMD) set when a byte is not ASCII
+  auto emit = [&](std::size_t end) {
+    Field& f = fields.emplace_back();
+    f.raw = std::string_view(base + begin, end - begin);
+    f.start = base + begin;
+    f.line_start = line_start;
+    f.line = line;
+  };
+#if defined(__SSE2__)
+  // 16 bytes at a time: a mask of delimiters, quotes and line ends, and one of high bits.
+  const __m128i delimiter = _mm_set1_epi8(delimiter_);
+  const __m128i lf = _mm_set1_epi8('\n');
+  const __m128i cr = _mm_set1_epi8('\r');
+  const __m128i quote = _mm_set1_epi8('"');
+  while (p + 16 <= n) {
+    const __m128i v = _mm_loadu_si128(reinterpret_cast<const __m128i*>(base + p));
+    const __m128i hit =
+        _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(v, delimiter), _mm_cmpeq_epi8(v, quote)),
+                     _mm_or_si128(_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
+    unsigned stops = static_cast<unsigned>(_mm_movemask_epi8(hit));
+    const unsigned highs = static_cast<unsigned>(_mm_movemask_epi8(v));
+    while (stops != 0) {
+      const unsigned k = static_cast<unsigned>(__builtin_ctz(stops));
+      const char c = base[p + k];
+      if (c == delimiter_) {
+        emit(p + k);
+        begin = p + k + 1;
+        stops &= stops - 1;
+        continue;
+      }
+      if (c == '"') {
+        fields.clear();
+        return false;
+      }
+      high |= highs & ((1u << k) - 1);
+      p += k;
+      goto line_end;
+    }
+    high |= highs;
+    p += 16;
+  }
+#endif
+  for (;; ++p) {
+    if (p >= n) break;
+    const unsigned char c = static_cast<unsigned char>(base[p]);
+    if (c == static_cast<unsigned char>(delimiter_)) {
+      emit(p);
+      begin = p + 1;
+      continue;
+    }
+    if (c == '"') {
+      fields.clear();
+      return false;
+    }
+    if (c == '\n' || c == '\r') break;
+    high |= c & 0x80u;
+  }
+#if defined(__SSE2__)
+line_end:
+#endif
+  emit(p);
+  record_begin_ = pos_;
+  record_line_ = line_;
+  record_line_start_ = line_start_;
+  record_ascii_ = high == 0;
+  if (p < n) {
+    if (base[p] == '\r' && p + 1 < n && base[p + 1] == '\n') ++p;
+    ++p;
+  }
+  pos_ = p;
+  ++line_;
+  line_start_ = p;
+  return true;
 }
 
 CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
@@ -108,6 +208,8 @@ CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
     break;
   }
 
+  if (simple_enabled_ && next_simple(fields)) return Status::record;
+  record_ascii_ = false;
   record_begin_ = pos_;
   record_line_ = line_;
   record_line_start_ = line_start_;

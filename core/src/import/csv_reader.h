@@ -37,6 +37,11 @@ std::uint32_t column_of(const char* line_start, const char* at);
 // Offset of the first byte that breaks UTF-8 in text, or npos.
 std::size_t invalid_utf8_at(std::string_view text);
 
+// Turns the quote-free fast path of CsvReader off (and with it every shortcut the importer takes
+// for ASCII records) on this thread, for readers made afterwards: for tests that check the fast
+// path against the general one.
+void set_simple_records_enabled(bool enabled);
+
 class CsvReader {
  public:
   enum class Status { record, end, unterminated_quote };
@@ -54,6 +59,9 @@ class CsvReader {
   std::size_t record_end() const { return pos_; }
   std::uint32_t record_line() const { return record_line_; }
   std::size_t record_line_start() const { return record_line_start_; }
+  // Whether the last record is all ASCII (then a column is its byte offset + 1 and any field
+  // is valid UTF-8). Only ever true for records read by the quote-free fast path.
+  bool record_ascii() const { return record_ascii_; }
   // Where the reader stands now (to restart another reader there).
   std::size_t offset() const { return pos_; }
   std::uint32_t line() const { return line_; }
@@ -61,6 +69,7 @@ class CsvReader {
 
  private:
   void skip_line();
+  bool next_simple(std::vector<Field>& fields);
   std::string_view text_;
   char delimiter_;
   std::size_t pos_;
@@ -69,6 +78,8 @@ class CsvReader {
   std::size_t record_begin_ = 0;
   std::uint32_t record_line_ = 0;
   std::size_t record_line_start_ = 0;
+  bool record_ascii_ = false;
+  bool simple_enabled_ = true;
   std::array<bool, 256> stop_{};  // delimiter, CR, LF
 };
 

@@ -40,13 +40,7 @@ constexpr std::string_view kOhmSign = "\xE2\x84\xA6";  // U+2126 OHM SIGN
 constexpr std::string_view kMicro = "\xC2\xB5";        // U+00B5 MICRO SIGN
 constexpr std::string_view kMu = "\xCE\xBC";           // U+03BC GREEK SMALL LETTER MU
 
-// 10^0 .. 10^22: every one exactly representable in a double.
-constexpr std::array<double, 23> kExactPowersOfTen = [] {
-  std::array<double, 23> t{};
-  double v = 1;
-  for (std::size_t i = 0; i < t.size(); ++i, v *= 10) t[i] = v;
-  return t;
-}();
+using detail::kExactPowersOfTen;
 
 // 10^e for the rounding step of a value as written (not needed exact).
 double pow10i(int e) {
@@ -97,24 +91,18 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
   bool negative = false;
   if (pos < n && (s[pos] == '+' || s[pos] == '-')) negative = s[pos++] == '-';
   const std::size_t digits_start = pos;
+  // Every digit goes into mantissa (leading zeros too); past 19 digits it may wrap, and then
+  // from_chars decides.
   std::uint64_t mantissa = 0;
-  int digits = 0;  // accumulated into mantissa
-  bool overflow = false;
-  auto take = [&](char c) {  // leading zeros count too: past 19 digits from_chars decides
-    overflow |= digits == 19;
-    if (digits < 19) {
-      mantissa = mantissa * 10 + static_cast<std::uint64_t>(c - '0');
-      ++digits;
-    }
-  };
-
-  while (pos < n && is_digit(s[pos])) take(s[pos++]);
+  while (pos < n && is_digit(s[pos]))
+    mantissa = mantissa * 10 + static_cast<std::uint64_t>(s[pos++] - '0');
   const std::size_t int_digits = pos - digits_start;
   std::size_t frac_digits = 0;
   bool point = false;
   if (pos < n && s[pos] == decimal) {
     std::size_t p = pos + 1;
-    while (p < n && is_digit(s[p])) take(s[p++]);
+    while (p < n && is_digit(s[p]))
+      mantissa = mantissa * 10 + static_cast<std::uint64_t>(s[p++] - '0');
     frac_digits = p - pos - 1;
     if (int_digits + frac_digits > 0) {
       point = true;
@@ -122,6 +110,7 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
     }
   }
   if (int_digits + frac_digits == 0) return std::nullopt;
+  const bool overflow = int_digits + frac_digits > 19;
   int exponent = 0;
   bool has_exponent = false;
   if (pos < n && (s[pos] == 'e' || s[pos] == 'E')) {

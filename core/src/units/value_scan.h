@@ -3,6 +3,8 @@
 // carried its own multiplier or unit). Not a public header.
 #pragma once
 
+#include <array>
+#include <cstdint>
 #include <optional>
 #include <string_view>
 
@@ -22,6 +24,70 @@ inline std::string_view trim(std::string_view text) {
   while (b < e && (text[b] == ' ' || text[b] == '\t')) ++b;
   while (e > b && (text[e - 1] == ' ' || text[e - 1] == '\t')) --e;
   return text.substr(b, e - b);
+}
+
+// 10^0 .. 10^22: every one exactly representable in a double.
+inline constexpr std::array<double, 23> kExactPowersOfTen = [] {
+  std::array<double, 23> t{};
+  double v = 1;
+  for (std::size_t i = 0; i < t.size(); ++i, v *= 10) t[i] = v;
+  return t;
+}();
+
+// The common case of every scanner below, inline: text that is exactly a plain number
+// [+-]digits[<decimal>digits][e[+-]digits] with at least one digit before and after the mark,
+// at most 19 digits and a rounding step within 10^+-22. Gives the value and half step the full
+// scanners give (the same single correctly rounded operation), self_scaled false; false for
+// anything else, which the full scanners then read.
+[[gnu::always_inline]] inline bool scan_plain(std::string_view t, char decimal, ScannedValue& out) {
+  const char* p = t.data();
+  const char* const end = p + t.size();
+  bool negative = false;
+  if (p < end && (*p == '-' || *p == '+')) negative = *p++ == '-';
+  const char* const digits_start = p;
+  std::uint64_t mantissa = 0;
+  unsigned d;
+  while (p < end && (d = static_cast<unsigned char>(*p) - '0') <= 9) {
+    mantissa = mantissa * 10 + d;
+    ++p;
+  }
+  const std::ptrdiff_t int_digits = p - digits_start;
+  if (int_digits == 0) return false;
+  std::ptrdiff_t frac_digits = 0;
+  if (p < end && *p == decimal) {
+    const char* const frac_start = ++p;
+    while (p < end && (d = static_cast<unsigned char>(*p) - '0') <= 9) {
+      mantissa = mantissa * 10 + d;
+      ++p;
+    }
+    frac_digits = p - frac_start;
+    if (frac_digits == 0) return false;
+  }
+  if (int_digits + frac_digits > 19) return false;
+  int exponent = 0;
+  if (p < end) {
+    if (*p != 'e' && *p != 'E') return false;
+    ++p;
+    bool exp_negative = false;
+    if (p < end && (*p == '-' || *p == '+')) exp_negative = *p++ == '-';
+    const char* const exp_start = p;
+    while (p < end && (d = static_cast<unsigned char>(*p) - '0') <= 9 && p - exp_start < 4) {
+      exponent = exponent * 10 + static_cast<int>(d);
+      ++p;
+    }
+    if (p == exp_start || p != end) return false;
+    if (exp_negative) exponent = -exponent;
+  }
+  const int step = exponent - static_cast<int>(frac_digits);
+  if (mantissa > (std::uint64_t{1} << 53) || step < -22 || step > 22) return false;
+  const double m = static_cast<double>(mantissa);
+  const double value = step >= 0 ? m * kExactPowersOfTen[static_cast<std::size_t>(step)]
+                                 : m / kExactPowersOfTen[static_cast<std::size_t>(-step)];
+  out.value = negative ? -value : value;
+  out.half_step = 0.5 * (step >= 0 ? kExactPowersOfTen[static_cast<std::size_t>(step)]
+                                   : 1.0 / kExactPowersOfTen[static_cast<std::size_t>(-step)]);
+  out.self_scaled = false;
+  return true;
 }
 
 // A resistance: plain number (column unit applies), SI prefix or IEC 60062 letter code with an
