@@ -50,11 +50,13 @@ double peak_rss_mb() {
   return double(r.ru_maxrss) / 1024.0;  // ru_maxrss is in KiB on Linux
 }
 
-void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct) {
+void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct,
+         int cap = photolot::PairOptions{}.candidate_cap_per_unit) {
   const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
   photolot::PairOptions o;
   o.mode = mode;
   o.tolerance_pct = tolerance_pct;
+  o.candidate_cap_per_unit = cap;
   photolot::Pairing p;
   for (auto _ : state) {
     p = photolot::pair_units(fit, o);
@@ -80,6 +82,10 @@ void BM_PairAbsolute3pct(benchmark::State& state) {
 void BM_PairTrimmable05pct(benchmark::State& state) {
   run(state, photolot::TrackingMode::trimmable, 0.5);
 }
+// The candidate cap's trade-off: a smaller first graph against more repair.
+void BM_PairAbsolute2pctCap(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0, static_cast<int>(state.range(1)));
+}
 
 }  // namespace
 
@@ -100,6 +106,13 @@ BENCHMARK(BM_PairAbsolute3pct)
 BENCHMARK(BM_PairTrimmable05pct)
     ->Arg(1000)
     ->Arg(10000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+
+BENCHMARK(BM_PairAbsolute2pctCap)
+    ->ArgsProduct({{10000}, {4, 6, 8, 12, 16}})
+    ->ArgsProduct({{100000}, {8, 12, 16}})
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->MeasureProcessCPUTime();
