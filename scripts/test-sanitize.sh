@@ -10,10 +10,12 @@ cd "$(dirname "$0")/.."
 build=${PHOTOLOT_ASAN_DIR:-build-asan}
 # The build lists each program's tests by running it (gtest_discover_tests): no leak check there.
 ASAN_OPTIONS=detect_leaks=0 PHOTOLOT_BUILD_DIR=$build PHOTOLOT_JOBS=${PHOTOLOT_JOBS:-2} ./scripts/build.sh \
-  -DPHOTOLOT_SANITIZE=ON -DPHOTOLOT_BUILD_BENCHMARKS=OFF -DCMAKE_BUILD_TYPE=RelWithDebInfo
+  -DPHOTOLOT_SANITIZE=ON -DPHOTOLOT_BUILD_BENCHMARKS=OFF -DCMAKE_BUILD_TYPE=RelWithDebInfo \
+  -DPHOTOLOT_BUILD_GUI=${PHOTOLOT_SANITIZE_GUI:-ON}
 export QT_QPA_PLATFORM=offscreen
 export UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1
 export ASAN_OPTIONS=strict_string_checks=1:detect_stack_use_after_return=1:check_initialization_order=1
 ctest --test-dir "$build" --output-on-failure -j "${PHOTOLOT_JOBS:-2}" -LE gui
+[ "${PHOTOLOT_SANITIZE_GUI:-ON}" = OFF ] && exit 0
 ASAN_OPTIONS=$ASAN_OPTIONS:detect_leaks=0 \
   ctest --test-dir "$build" --output-on-failure -j "${PHOTOLOT_JOBS:-2}" -L gui
