@@ -33,7 +33,7 @@ results::Json fit_options_json(const fitting::FitOptions& options);
 
 // The curve model, over-range readings, the bench profile and temperature (fitting/models.h).
 struct ModelArgs {
-  std::string model = "choose";     // --model power-law|dark|choose
+  std::string model = "power-law";  // --model power-law|dark|choose (docs/cli.md: why this default)
   std::string temperature = "auto";  // --temperature auto|off
   std::string bench_path;            // --bench PROFILE.toml
   fitting::ExtendedFitOptions options;

@@ -253,7 +253,8 @@ TEST(CliModels, ChoosesTheDarkModelWhereAParallelConductanceBendsTheCurve) {
                     dir)
                 .code,
             0);
-  const CliRun r = run_cli({"analyze", "lot.csv", "--json", "out.json", "--quiet"}, dir);
+  const CliRun r =
+      run_cli({"analyze", "lot.csv", "--model", "choose", "--json", "out.json", "--quiet"}, dir);
   ASSERT_EQ(r.code, 0) << r.err;
   const Json doc = Json::parse(slurp(dir / "out.json"));
   EXPECT_EQ(doc.at("inputs").at("options").at("model").at("model"), "choose");
@@ -269,11 +270,8 @@ TEST(CliModels, ChoosesTheDarkModelWhereAParallelConductanceBendsTheCurve) {
     }
   }
   EXPECT_GE(dark, 16u);
-  // --model power-law keeps the trade's plain curve for every unit.
-  ASSERT_EQ(run_cli({"analyze", "lot.csv", "--model", "power-law", "--json", "pl.json", "--quiet"},
-                    dir)
-                .code,
-            0);
+  // The default, the power law (the trade's convention), keeps the plain curve for every unit.
+  ASSERT_EQ(run_cli({"analyze", "lot.csv", "--json", "pl.json", "--quiet"}, dir).code, 0);
   for (const auto& u : Json::parse(slurp(dir / "pl.json")).at("units"))
     EXPECT_EQ(u.at("model"), "power_law");
 }
