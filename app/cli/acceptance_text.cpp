@@ -3,6 +3,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 
 namespace photolot::cli {
@@ -82,6 +83,21 @@ std::string acceptance_lines(const Spec& spec, const std::vector<UnitVerdict>& v
                       styled(a.reason, style));
   text += fmt::format("  rule: {}\n", a.rule);
   text += "  The decision and the signature are the inspector's.\n";
+  return text;
+}
+
+std::string pairing_lines(const Pairing& p, const TextStyle& style) {
+  const PairOptions& o = p.options;
+  const char* dash = style.unicode ? "\u2013" : "-";
+  std::string text = fmt::format(
+      "pairs: {} from {} eligible units ({} tracking over {:g}{}{:g} lx, at most {:g} %)", p.pairs.size(),
+      p.counts.eligible, to_string(o.mode), o.lux_lo, dash, o.lux_hi, o.tolerance_pct);
+  double worst = 0;
+  for (const auto& pair : p.pairs)
+    if (std::isfinite(pair.tracking_error_pct)) worst = std::max(worst, pair.tracking_error_pct);
+  if (!p.pairs.empty()) text += fmt::format(", worst error {:.2f} %", worst);
+  text += fmt::format("; {} left unpaired\n", p.unpaired.size());
+  text += fmt::format("  {}: {}\n", to_string(p.proof), p.proof_detail);
   return text;
 }
 

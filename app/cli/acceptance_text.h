@@ -5,6 +5,7 @@
 #include <vector>
 
 #include "photolot/acceptance.h"
+#include "photolot/pairing.h"
 #include "photolot/statistics.h"
 #include "table.h"
 
@@ -19,5 +20,9 @@ std::string statistics_lines(const LotStatistics& stats, const TextStyle& style)
 std::string acceptance_lines(const Spec& spec, const std::vector<UnitVerdict>& verdicts,
                              const Acceptance& acceptance, std::size_t max_units,
                              const TextStyle& style);
+
+// The pairs in short: how many, among how many eligible units, the worst error and whether the
+// pairing is proved optimal (the pairs themselves are in the results document and pick list).
+std::string pairing_lines(const Pairing& pairing, const TextStyle& style);
 
 }  // namespace photolot::cli

@@ -1,5 +1,5 @@
 // photolot-cli analyze: import the bench logs, fit every unit, print the table and the lot's
-// counts, write the results document and the unit table.
+// counts, write the results document, the unit table, the pick list and the printed summary.
 //
 // Adding a step (spec and acceptance, statistics, pairing): put its options struct in
 // AnalyzeConfig, add its option group (option_groups.h) in add_analyze_command, run it after
@@ -9,6 +9,7 @@
 #include <unistd.h>
 
 #include <atomic>
+#include <cmath>
 #include <cstdio>
 #include <optional>
 
@@ -17,7 +18,10 @@
 #include "exit_codes.h"
 #include "photolot/acceptance.h"
 #include "photolot/atomic_file.h"
+#include "photolot/bench_profile.h"
+#include "photolot/pairing.h"
 #include "photolot/results.h"
+#include "report_output.h"
 #include "table.h"
 
 namespace photolot::cli {
@@ -54,8 +58,11 @@ CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config) {
                   "inspection.lot_size)")
       ->check(CLI::PositiveNumber)
       ->group(acc);
+  add_pair_options(*cmd, config.pair);
+  add_report_options(*cmd, config.report);
   add_import_options(*cmd, config.import);
   add_fit_options(*cmd, config.fit);
+  add_model_options(*cmd, config.model);
   return cmd;
 }
 
@@ -88,6 +95,17 @@ int run_analyze(AnalyzeConfig& config) {
     print_err(fmt::format("photolot-cli analyze: fit options: {}\n", why));
     return kExitUsageError;
   }
+  if (auto why = config.pair.apply(); !why.empty()) {
+    print_err(fmt::format("photolot-cli analyze: {}\n", why));
+    return kExitUsageError;
+  }
+  if (!config.report.path.empty() && !report_supported()) {
+    print_err(
+        "photolot-cli analyze: --report: this build of photolot-cli has no PDF support (it was "
+        "built without the Qt parts, PHOTOLOT_BUILD_GUI=OFF); no output written\n");
+    return kExitUsageError;
+  }
+  config.model.apply();
 
   // The spec is read first: nothing is analysed against a spec that did not load.
   std::optional<Spec> spec;
@@ -107,6 +125,23 @@ int run_analyze(AnalyzeConfig& config) {
     }
     spec = std::move(loaded.spec);
   }
+  // The spec's temperature coefficient is applied where the readings do not identify one.
+  if (spec && std::isfinite(spec->temp_coeff_pct_per_c))
+    config.model.options.spec_tc10_pct_per_c = spec->temp_coeff_pct_per_c;
+  if (!config.model.bench_path.empty()) {
+    BenchProfileResult bench = load_bench_profile(config.model.bench_path);
+    if (!bench.ok()) {
+      const FileError& e = *bench.error;
+      print_err(diagnostic_line(e.file, e.line, e.column, "error", e.message));
+      print_err("photolot-cli analyze: the bench profile did not load; no output written\n");
+      return kExitInputError;
+    }
+    config.model.options.bench = std::move(bench.profile);
+  }
+  if (auto why = config.model.options.validate(); !why.empty()) {
+    print_err(fmt::format("photolot-cli analyze: model options: {}\n", why));
+    return kExitUsageError;
+  }
 
   ImportResult imported = import_files(config.files, config.import.options);
   if (!imported.ok()) {
@@ -119,7 +154,10 @@ int run_analyze(AnalyzeConfig& config) {
   if (!config.lot_name.empty()) lot.name = config.lot_name;
   print_err(diagnostic_lines(lot.diagnostics, config.max_messages, config.json_path));
 
-  LotFit fit = fitting::fit_lot(lot, config.fit, terminal_progress(lot.units.size()));
+  // Over-range readings enter as one-sided bounds unless --no-over-range-bounds.
+  config.fit.over_range_bounds = config.model.options.censored_terms;
+  LotFit fit = fitting::fit_lot_extended(lot, config.fit, config.model.options,
+                                         terminal_progress(lot.units.size()));
 
   results::ResultsDocument doc = results::make_document(lot, fit);
   doc.with_residuals = config.with_residuals;
@@ -128,6 +166,7 @@ int run_analyze(AnalyzeConfig& config) {
   }
   doc.options["import"] = import_options_json(config.import.options);
   doc.options["fit"] = fit_options_json(config.fit);
+  doc.options["model"] = model_options_json(config.model);
 
   // Lot statistics always; verdicts and the disposition with a spec.
   StatisticsOptions stats_options;
@@ -146,9 +185,31 @@ int run_analyze(AnalyzeConfig& config) {
                config.lot_size ? std::optional<std::size_t>(config.lot_size) : std::nullopt);
     doc.options["spec"] = results::Json(spec_json(*spec));
     doc.sections["acceptance"] = results::Json(acceptance_json(*acceptance));
-    results::Json per_unit = results::Json::array();
-    for (const auto& v : verdicts) per_unit.push_back(results::Json(verdict_json(v)));
-    doc.sections["verdicts"] = per_unit;
+    // Each unit's verdict, reasons and notes go into its own element of "units".
+    doc.unit_sections.reserve(verdicts.size());
+    for (const auto& v : verdicts) {
+      const nlohmann::json full = verdict_json(v);
+      results::Json j = results::Json::object();
+      for (const char* key : {"verdict", "reasons", "notes"}) j[key] = results::Json(full.at(key));
+      doc.unit_sections.push_back(std::move(j));
+    }
+  }
+
+  // Pairing among the units that conform (with a spec), else among every fitted unit.
+  std::optional<Pairing> pairing;
+  if (config.pair.enabled) {
+    std::vector<std::size_t> eligible;
+    for (std::size_t i = 0; i < fit.units.size(); ++i) {
+      const bool ok = spec ? verdicts[i].verdict == Verdict::conforming : fit.units[i].ok();
+      if (ok) eligible.push_back(i);
+    }
+    pairing = pair_units(fit, eligible, config.pair.options);
+    results::Json options = pair_options_json(config.pair.options);
+    options["eligible"] = spec ? "conforming to the spec" : "fitted";
+    doc.options["pairing"] = options;
+    const results::Json section = results::Json(pairing_json(*pairing));
+    for (const char* key : {"pairing", "pairs", "unpaired"})
+      if (section.contains(key)) doc.sections[key] = section.at(key);
   }
 
   // Build every output before writing any, then write each to a temporary file and rename it.
@@ -156,22 +217,44 @@ int run_analyze(AnalyzeConfig& config) {
   if (!config.json_path.empty()) outputs.emplace_back(config.json_path, results::to_json_text(doc));
   if (!config.units_csv_path.empty())
     outputs.emplace_back(config.units_csv_path, results::units_csv(fit.units));
+  if (pairing && !config.pair.pairs_csv_path.empty())
+    outputs.emplace_back(config.pair.pairs_csv_path, pick_list_csv(*pairing));
+  // The summary first: it is the output most likely to fail (fonts, Qt), and then nothing
+  // else is written either.
+  if (!config.report.path.empty()) {
+    ReportContent content{&lot,
+                          &fit,
+                          spec ? &*spec : nullptr,
+                          &stats,
+                          acceptance ? &*acceptance : nullptr,
+                          spec ? &verdicts : nullptr,
+                          pairing ? &*pairing : nullptr};
+    if (auto err = write_report(config.report, content); !err.empty()) {
+      print_err(err + "\n");
+      return kExitInputError;
+    }
+  }
+
   for (const auto& [path, text] : outputs) {
     if (auto err = write_file_atomically(path, text)) {
       print_err(fmt::format("{}: error: cannot write: {}\n", err->path, err->message));
       return kExitInputError;
     }
   }
-
   TextStyle style{.unicode = !config.ascii && environment_is_utf8()};
   std::string text;
   if (!config.quiet) text += unit_table(fit.units, style) + "\n";
   text += lot_summary(lot, fit);
   text += statistics_lines(stats, style);
   if (spec) text += acceptance_lines(*spec, verdicts, *acceptance, config.max_messages, style);
+  if (pairing) text += pairing_lines(*pairing, style);
   if (!config.json_path.empty()) text += fmt::format("results document: {}\n", config.json_path);
   if (!config.units_csv_path.empty())
     text += fmt::format("unit table: {}\n", config.units_csv_path);
+  if (pairing && !config.pair.pairs_csv_path.empty())
+    text += fmt::format("pick list: {}\n", config.pair.pairs_csv_path);
+  if (!config.report.path.empty())
+    text += fmt::format("lot acceptance summary: {}\n", config.report.path);
   print_out(text);
   return kExitDone;
 }

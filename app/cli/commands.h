@@ -27,6 +27,10 @@ struct AnalyzeConfig {
 
   std::string spec_path;     // --spec: judge units and the lot against this purchase spec
   std::size_t lot_size = 0;  // --lot-size (0: the spec's inspection.lot_size)
+
+  ModelArgs model;    // --model, --bench, --temperature, --no-over-range-bounds
+  PairArgs pair;      // --pair and its options
+  ReportArgs report;  // --report and the page head
 };
 CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config);
 int run_analyze(AnalyzeConfig& config);

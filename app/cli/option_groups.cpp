@@ -1,7 +1,11 @@
 // Import and fit option groups of photolot-cli.
 #include "option_groups.h"
 
+#include <fmt/format.h>
+
+#include <charconv>
 #include <cmath>
+#include <optional>
 
 #include "photolot/units.h"
 
@@ -126,6 +130,164 @@ results::Json fit_options_json(const fitting::FitOptions& o) {
   // threads is left out on purpose: it does not change the results, and the document's bytes
   // should not depend on it.
   return j;
+}
+
+}  // namespace photolot::cli
+
+namespace photolot::cli {
+
+void add_model_options(CLI::App& command, ModelArgs& args) {
+  const char* group = "Curve model, over-range readings, bench and temperature";
+  command
+      .add_option("--model", args.model,
+                  "Curve per unit: power-law (R10 (E/10 lx)^-gamma), dark (with a dark "
+                  "conductance in parallel), or choose (both, keep the lower AICc)")
+      ->check(CLI::IsMember({"power-law", "dark", "choose"}))
+      ->capture_default_str()
+      ->group(group);
+  command
+      .add_option("--bench", args.bench_path,
+                  "Bench profile (TOML): the meters' accuracies, to weight each reading")
+      ->group(group);
+  command
+      .add_option("--temperature", args.temperature,
+                  "auto: fit the temperature coefficient where the readings' spread allows, else "
+                  "apply the spec's; off: curves describe R at the bench's temperature")
+      ->check(CLI::IsMember({"auto", "off"}))
+      ->capture_default_str()
+      ->group(group);
+  command
+      .add_flag("!--no-over-range-bounds", args.options.censored_terms,
+                "Leave over-range readings out of the curve instead of using each as a "
+                "one-sided bound")
+      ->group(group);
+}
+
+void ModelArgs::apply() {
+  if (model == "power-law") options.model = fitting::ModelChoice::power_law;
+  if (model == "dark") options.model = fitting::ModelChoice::dark_conductance;
+  if (model == "choose") options.model = fitting::ModelChoice::choose;
+  options.temperature =
+      temperature == "off" ? fitting::TemperatureMode::off : fitting::TemperatureMode::fit;
+}
+
+results::Json model_options_json(const ModelArgs& args) {
+  const auto& o = args.options;
+  results::Json j = results::Json::object();
+  j["model"] = std::string(fitting::to_string(o.model));
+  j["over_range_bounds"] = o.censored_terms;
+  j["use_dark_readings"] = o.use_dark_readings;
+  j["temperature"] = std::string(fitting::to_string(o.temperature));
+  j["spec_tc10_pct_per_c"] =
+      std::isfinite(o.spec_tc10_pct_per_c) ? results::Json(o.spec_tc10_pct_per_c) : nullptr;
+  j["bench_profile"] = text_or_null(args.bench_path);
+  if (o.bench) {
+    results::Json ranges = results::Json::array();
+    for (const auto& r : o.bench->ohm_ranges)
+      ranges.push_back({{"max_ohm", r.max_ohm},
+                        {"pct", r.pct},
+                        {"digits", r.digits},
+                        {"resolution_ohm", r.resolution_ohm}});
+    j["bench"] = {{"lux_pct", o.bench->lux_pct}, {"ohm_ranges", ranges}};
+  }
+  return j;
+}
+
+void add_pair_options(CLI::App& command, PairArgs& args) {
+  const char* group = "Pairing units whose curves track each other";
+  CLI::Option* pair =
+      command
+          .add_flag("--pair", args.enabled,
+                    "Pair units (those that conform to the spec when one is given, else every "
+                    "fitted unit): most pairs, then the smallest total tracking error")
+          ->group(group);
+  auto& o = args.options;
+  command
+      .add_option("--pair-range", args.range,
+                  fmt::format("Working range of the circuit, LO:HI in lx (default {:g}:{:g})",
+                              o.lux_lo, o.lux_hi))
+      ->needs(pair)
+      ->group(group);
+  command
+      .add_option("--pair-tolerance", o.tolerance_pct,
+                  "Largest tracking error of a pair over the range, percent")
+      ->capture_default_str()
+      ->needs(pair)
+      ->group(group);
+  command
+      .add_option("--pair-mode", args.mode,
+                  "absolute: equal resistances; trimmable: a constant ratio is trimmed out, only "
+                  "its drift over the range counts (default absolute)")
+      ->check(CLI::IsMember({"absolute", "trimmable"}))
+      ->needs(pair)
+      ->group(group);
+  command
+      .add_option("--pairs-csv", args.pairs_csv_path,
+                  "Write the pick list (pair number, the two ids, the error) as CSV here")
+      ->needs(pair)
+      ->group(group);
+}
+
+std::string PairArgs::apply() {
+  if (!range.empty()) {
+    const auto colon = range.find(':');
+    auto number = [](std::string_view text) -> std::optional<double> {
+      double v = 0;
+      auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+      if (ec != std::errc() || end != text.data() + text.size()) return std::nullopt;
+      return v;
+    };
+    std::optional<double> lo, hi;
+    if (colon != std::string::npos) {
+      lo = number(std::string_view(range).substr(0, colon));
+      hi = number(std::string_view(range).substr(colon + 1));
+    }
+    if (!lo || !hi || !(*lo > 0) || !(*hi > *lo))
+      return "--pair-range: '" + range + "' is not LO:HI in lx with 0 < LO < HI (e.g. 1:1000)";
+    options.lux_lo = *lo;
+    options.lux_hi = *hi;
+  }
+  if (!mode.empty()) options.mode = *parse_tracking_mode(mode);  // checked by CLI11
+  if (auto why = options.validate(); !why.empty()) return "pairing options: " + why;
+  return {};
+}
+
+results::Json pair_options_json(const PairOptions& o) {
+  results::Json j = results::Json::object();
+  j["lux_lo"] = o.lux_lo;
+  j["lux_hi"] = o.lux_hi;
+  j["tolerance_pct"] = o.tolerance_pct;
+  j["mode"] = std::string(to_string(o.mode));
+  j["candidate_cap_per_unit"] = o.candidate_cap_per_unit;
+  return j;
+}
+
+void add_report_options(CLI::App& command, ReportArgs& args) {
+  const char* group = "Printed lot acceptance summary (PDF)";
+  CLI::Option* report =
+      command.add_option("--report", args.path, "Write the lot acceptance summary (PDF) here")
+          ->group(group);
+  command.add_option("--paper", args.paper, "Paper size: a4 or letter")
+      ->check(CLI::IsMember({"a4", "letter"}))
+      ->capture_default_str()
+      ->needs(report)
+      ->group(group);
+  const char* blank = " (blank: a line to fill in by hand)";
+  command.add_option("--part", args.part, std::string("Part number as ordered") + blank)
+      ->needs(report)
+      ->group(group);
+  command.add_option("--lot-id", args.lot_id, std::string("Supplier's lot or date code") + blank)
+      ->needs(report)
+      ->group(group);
+  command.add_option("--supplier", args.supplier, std::string("Supplier") + blank)
+      ->needs(report)
+      ->group(group);
+  command.add_option("--inspector", args.inspector, std::string("Inspector") + blank)
+      ->needs(report)
+      ->group(group);
+  command.add_option("--date", args.date, std::string("Date of inspection") + blank)
+      ->needs(report)
+      ->group(group);
 }
 
 }  // namespace photolot::cli

@@ -45,6 +45,18 @@ ResultsDocument sample_document() {
   b.status = FitStatus::too_few_levels;
   b.message = "2 levels, 3 needed";
   doc.units = {a, b};
+  // Keys a later step adds to the units (the spec's verdicts; docs/statistics.md).
+  doc.unit_sections = {
+      Json::object({{"verdict", "conforming"}, {"reasons", Json::array()},
+                    {"notes", Json::array({"no dark reading: dark_min_ohm not judged"})}}),
+      Json::object({{"verdict", "nonconforming"},
+                    {"reasons", Json::array({Json::object({{"characteristic", "fit"},
+                                                           {"limit", "fit"},
+                                                           {"measured", nullptr},
+                                                           {"limit_value", nullptr},
+                                                           {"excess_pct", nullptr},
+                                                           {"text", "not fitted"}})})},
+                    {"notes", Json::array()}})};
   doc.diagnostics = {{"logs/a.csv", 7, 3, Severity::warning, "not a number: 'x'; row skipped"}};
   return doc;
 }
@@ -190,6 +202,10 @@ TEST(ResultsJson, ReadsBackWhatItWrote) {
   ASSERT_EQ(d.diagnostics.size(), 1u);
   EXPECT_EQ(d.diagnostics[0].column, 3u);
   EXPECT_EQ(d.sections.begin().key(), "pairing");
+  // The keys of later steps in the units come back with their units.
+  ASSERT_EQ(d.unit_sections.size(), 2u);
+  EXPECT_EQ(d.unit_sections[1].at("verdict"), "nonconforming");
+  EXPECT_FALSE(d.unit_sections[0].contains("id"));
 }
 
 TEST(ResultsJson, EscapesTextAndReplacesInvalidUtf8) {

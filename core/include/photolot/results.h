@@ -54,6 +54,11 @@ struct ResultsDocument {
   LotTemperature temperature;  // "fit": {"temperature": {...}}
 
   std::vector<UnitFit> units;   // "units"
+  // Keys later steps add to each element of "units" (e.g. the spec's "verdict" and "reasons"):
+  // empty, or one JSON object per unit, in the order of `units`. Its members are written after
+  // the unit's own keys and before "residuals"; reading a document back puts every key of a
+  // unit that is not one of the unit's own here (empty when no unit has any).
+  std::vector<Json> unit_sections;
   bool with_residuals = false;  // write each unit's per-point residuals ("residuals": [...])
   std::vector<Diagnostic> diagnostics;  // "diagnostics"
 

@@ -6,6 +6,7 @@
 #include <iterator>
 #include <tuple>
 #include <map>
+#include <set>
 
 #include "photolot/results.h"
 
@@ -332,7 +333,8 @@ class LineWriter {
   bool first_ = true;
 };
 
-void append_unit(fmt::memory_buffer& out, const UnitFit& u, bool with_residuals) {
+void append_unit(fmt::memory_buffer& out, const UnitFit& u, bool with_residuals,
+                 const Json* extra = nullptr) {
   LineWriter w(out);
   w.open();
   w.str("id", u.id);
@@ -381,6 +383,13 @@ void append_unit(fmt::memory_buffer& out, const UnitFit& u, bool with_residuals)
     c.num("tc10_pct_per_c", u.curve.tc10_pct_per_c);
     c.num("tc_slope_pct_per_c_per_decade", u.curve.tc_slope_pct_per_c_per_decade);
     c.close();
+  }
+  if (extra && extra->is_object()) {
+    for (const auto& [k, v] : extra->items()) {
+      if (k == "residuals") continue;  // written below, from the unit itself
+      w.key(k);
+      out.append(v.dump(-1, ' ', false, Json::error_handler_t::replace));
+    }
   }
   if (with_residuals) {
     w.key("residuals");
@@ -475,7 +484,8 @@ std::string to_json_text(const ResultsDocument& doc) {
       out.append(std::string_view("[\n"));
       for (std::size_t i = 0; i < doc.units.size(); ++i) {
         out.append(std::string_view("    "));
-        append_unit(out, doc.units[i], doc.with_residuals);
+        append_unit(out, doc.units[i], doc.with_residuals,
+                    i < doc.unit_sections.size() ? &doc.unit_sections[i] : nullptr);
         out.append(i + 1 < doc.units.size() ? std::string_view(",\n") : std::string_view("\n"));
       }
       out.append(std::string_view("  ]"));
@@ -554,6 +564,25 @@ ReadResult from_json(const Json& j) {
     for (std::size_t i = 0; i < units.size(); ++i) {
       doc.units.push_back(unit_from_json(units[i], r.at("units").at(i)));
       if (units[i].contains("residuals")) doc.with_residuals = true;
+    }
+    // Keys of later steps in the units: every key that is not one of the unit's own.
+    {
+      // The unit's own keys, as append_unit writes them.
+      static const std::set<std::string, std::less<>> kOwnKeys = {
+          "id", "status", "message", "model", "r10_ohm", "r10_ci95_ohm", "gamma", "gamma_ci95",
+          "gamma_10_100", "ln_r10_sd", "gamma_sd", "rms_log_residual", "points", "levels",
+          "outlier_points", "censored_points", "dark_readings", "dof", "cost", "iterations",
+          "aicc_power_law", "aicc_dark_conductance", "dark_conductance_s", "temp_coeff_pct_per_c",
+          "dark_ohm", "dark_censored", "flags", "curve", "residuals"};
+      std::vector<Json> extras(units.size(), Json::object());
+      bool any = false;
+      for (std::size_t i = 0; i < units.size(); ++i)
+        for (const auto& [key, value] : units[i].items())
+          if (!kOwnKeys.count(key)) {
+            extras[i][key] = value;
+            any = true;
+          }
+      if (any) doc.unit_sections = std::move(extras);
     }
 
     static constexpr Severity kSeverities[] = {Severity::note, Severity::warning, Severity::error};
