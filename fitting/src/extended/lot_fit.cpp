@@ -151,11 +151,22 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
     lt.source = "none";
     return std::string("no coefficient applied: results are at the bench temperature");
   };
+  // A plain power law with no meter profile and no temperature coefficient to apply is the
+  // fast per-unit fit (fit.h); only units with over-range readings need the extended problem,
+  // and fit_unit hands those over itself (docs/fitting.md has its loss rule): ~5x less time.
+  FitOptions plain_options = options;
+  plain_options.over_range_bounds = ext.censored_terms;
   auto run_all = [&](const ExtendedFitOptions& e, std::string_view label, std::size_t done0,
                      std::size_t total) {
+    const bool plain =
+        e.model == ModelChoice::power_law && !e.bench && lt.source == "none";
+    if (plain) out.method += "; units without over-range readings by the fast power-law fit";
     detail::for_each_index(
         n, options.threads, progress, stop,
-        [&](std::size_t i) { out.units[i] = fit_unit_labelled(lot.units[i], options, e, label); },
+        [&](std::size_t i) {
+          out.units[i] = plain ? fit_unit(lot.units[i], plain_options)
+                               : fit_unit_labelled(lot.units[i], options, e, label);
+        },
         done0, total);
   };
 
