@@ -1,0 +1,96 @@
+// The analysis session: the inputs of a lot (source files, import choices, fit options) and the
+// results of each step (import, fit). Steps run on a worker thread; the session reruns only the
+// steps whose inputs changed since their last run and announces each result with a signal.
+// Results are shared immutable snapshots, so views can hold them while a new run is going.
+#pragma once
+
+#include <QObject>
+#include <QTimer>
+
+#include <atomic>
+#include <memory>
+#include <thread>
+#include <vector>
+
+#include "engine.h"
+
+namespace photolot::workbench {
+
+class AnalysisSession : public QObject {
+  Q_OBJECT
+ public:
+  enum class Step { idle, import, fit };
+
+  explicit AnalysisSession(QObject* parent = nullptr);
+  ~AnalysisSession() override;
+
+  // Inputs. Each setter marks the steps downstream of it as stale; run() brings them up to date.
+  void setSources(std::vector<SourceFile> sources);
+  void setImportOptions(const ImportOptions& options);
+  void setFitOptions(const fitting::FitOptions& options);
+  const std::vector<SourceFile>& sources() const { return sources_; }
+  const ImportOptions& importOptions() const { return import_options_; }
+  const fitting::FitOptions& fitOptions() const { return fit_options_; }
+
+  // Starts the stale steps in the background. A run already going is stopped first.
+  void run();
+  // Asks the running step to stop; its partial result is dropped and the step stays stale.
+  void cancel();
+  bool busy() const { return step_ != Step::idle; }
+  Step step() const { return step_; }
+  bool importStale() const { return import_stale_; }
+  bool fitStale() const { return fit_stale_; }
+
+  // Results, null until the step has run on the current inputs.
+  std::shared_ptr<const ImportResult> importResult() const { return import_result_; }
+  std::shared_ptr<const LotFit> lotFit() const { return lot_fit_; }
+  const Lot* lot() const { return import_result_ ? &import_result_->lot : nullptr; }
+
+  // How many times each step has run to completion (shown in the log; tests read it).
+  int importRuns() const { return import_runs_; }
+  int fitRuns() const { return fit_runs_; }
+
+  // Drops inputs and results (File > Close lot).
+  void clear();
+
+ signals:
+  void busyChanged(bool busy);
+  // done/total of the running step; polled from the worker every 50 ms, never flooded.
+  void progress(photolot::workbench::AnalysisSession::Step step, qint64 done, qint64 total);
+  void importFinished();
+  void fitFinished();
+  void cancelled();
+  void inputsChanged();
+
+ private:
+  struct Shared {
+    std::atomic<std::size_t> done{0}, total{0};
+    std::atomic<int> step{0};
+  };
+  void startWorker();
+  void stopWorker();
+  void setStep(Step step);
+  void pollProgress();
+  void onImported(unsigned generation, std::shared_ptr<const ImportResult> result);
+  void onFitted(unsigned generation, std::shared_ptr<const LotFit> fit);
+  void onWorkerEnded(unsigned generation, bool stopped);
+
+  std::vector<SourceFile> sources_;
+  ImportOptions import_options_;
+  fitting::FitOptions fit_options_;
+  bool import_stale_ = false;
+  bool fit_stale_ = false;
+
+  std::shared_ptr<const ImportResult> import_result_;
+  std::shared_ptr<const LotFit> lot_fit_;
+  int import_runs_ = 0;
+  int fit_runs_ = 0;
+
+  Step step_ = Step::idle;
+  unsigned generation_ = 0;
+  std::shared_ptr<Shared> shared_;
+  std::jthread worker_;
+  QTimer poll_timer_;
+};
+
+}  // namespace photolot::workbench
