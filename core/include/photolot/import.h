@@ -6,9 +6,11 @@
 // counted, and never sinks the lot.
 #pragma once
 
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "photolot/lot.h"
@@ -20,26 +22,35 @@ std::string_view to_string(ColumnRole role);
 
 // Choices that override detection. Empty strings mean "detect".
 struct ImportOptions {
-  char delimiter = 0;          // ',', ';', '\t', or 0 to detect
-  char decimal = 0;            // '.', ',', or 0: ',' when the delimiter is ';', else '.'
+  char delimiter = 0;  // ',', ';', '\t', or 0 to detect
+  char decimal = 0;    // '.', ',', or 0: ',' when the delimiter is ';', else '.'
   // A column by header name (case-insensitive) or by 1-based number ("3").
   std::string id_column, lux_column, ohm_column, temp_column;
   // A unit forcing the column's scale: "lx", "lux", "fc"; "ohm", "kohm", "Mohm"; "degC", "K".
   std::string lux_unit, ohm_unit, temp_unit;
-  double overload_ohm = kNaN;  // the bound for "OL"-style readings with no value (ohm)
-  std::string default_unit_id; // for logs of a single unit with no id column
+  double overload_ohm = kNaN;   // the bound for "OL"-style readings with no value (ohm)
+  std::string default_unit_id;  // for logs of a single unit with no id column
 
   // Empty when valid; otherwise names the field, its value and the rule.
   std::string validate() const;
 };
 
+// A file that cannot be read at all. line and column are 1-based (columns count characters, as
+// editors do); 0 means "the whole file".
+struct FileError {
+  std::string file;
+  std::uint32_t line = 0;
+  std::uint32_t column = 0;
+  std::string message;
+};
+
 struct DetectedColumn {
-  std::size_t index = 0;     // 0-based
-  std::string header;        // as written
+  std::size_t index = 0;  // 0-based
+  std::string header;     // as written
   ColumnRole role = ColumnRole::ignored;
-  std::string unit;          // canonical: "lx", "fc", "ohm", "kohm", "Mohm", "degC", "K", or ""
-  double scale = 1;          // value * scale = lx / ohm; temperature: see offset
-  double offset = 0;         // degC = value * scale + offset
+  std::string unit;   // canonical: "lx", "fc", "ohm", "kohm", "Mohm", "degC", "K", or ""
+  double scale = 1;   // value * scale = lx / ohm; temperature: see offset
+  double offset = 0;  // degC = value * scale + offset
 };
 
 // What import saw in one file: shown by the workbench's import preview and in the JSON.
@@ -51,13 +62,8 @@ struct FileLayout {
   std::size_t header_line = 0;  // 1-based
   std::vector<DetectedColumn> columns;
   std::vector<std::vector<std::string>> preview;  // first data rows, split into fields
-};
-
-struct FileError {
-  std::string file;
-  std::uint32_t line = 0;
-  std::uint32_t column = 0;
-  std::string message;
+  std::size_t data_rows = 0;                      // import only: data rows read from this file
+  std::optional<FileError> error;                 // set when the file cannot be read at all
 };
 
 struct ImportResult {

@@ -41,4 +41,18 @@ LotFit fit_lot(const Lot& lot, const FitOptions& options = {}, const ProgressFn&
 // starting point and the benchmark's baseline.
 UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options = {});
 
+// A one-line description of the fit the options ask for (model, loss, scale, interval
+// method), as stored in LotFit::method.
+std::string describe(const FitOptions& options);
+
+// The fitted resistance at an illuminance with its confidence interval (Student t on the
+// unit's dof, from the curve's covariance): an interval for the curve itself, not for a new
+// reading. All NaN for a unit that was not fitted; lo and hi NaN when the unit has no dof.
+struct OhmInterval {
+  double ohm = kNaN;
+  double lo_ohm = kNaN;
+  double hi_ohm = kNaN;
+};
+OhmInterval interval_at(const UnitFit& unit_fit, double lux, double confidence = 0.95);
+
 }  // namespace photolot::fitting

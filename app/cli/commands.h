@@ -1,0 +1,43 @@
+// photolot-cli's commands. Each command has a config struct filled by CLI11, a function that
+// adds the command to the program, and a run function returning the exit code (exit_codes.h).
+#pragma once
+
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include <CLI/CLI.hpp>
+
+#include "option_groups.h"
+#include "photolot/synth.h"
+
+namespace photolot::cli {
+
+struct AnalyzeConfig {
+  std::vector<std::string> files;
+  ImportArgs import;
+  fitting::FitOptions fit;
+
+  std::string json_path;       // --json
+  std::string units_csv_path;  // --units-csv
+  bool with_residuals = false; // --residuals
+  std::string lot_name;        // --lot-name (default: import's, the first file's stem)
+  bool quiet = false;          // --quiet: counts only, no table
+  bool ascii = false;          // --ascii
+  std::size_t max_messages = 20;
+};
+CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config);
+int run_analyze(AnalyzeConfig& config);
+
+struct SimulateConfig {
+  synth::LotSpec spec;
+  std::string dialect = "comma";
+  std::string r10 = "20k", censor_above, dark_median = "5M";
+  std::vector<double> levels;
+  std::string out_path;    // --out
+  std::string truth_path;  // --truth
+};
+CLI::App* add_simulate_command(CLI::App& app, SimulateConfig& config);
+int run_simulate(SimulateConfig& config);
+
+}  // namespace photolot::cli

@@ -1,0 +1,307 @@
+// The per-unit power-law fit: ln R = ln R10 - gamma * ln(E / 10 lx), least squares in log
+// space with a robust loss, solved by Ceres's TinySolver from the closed-form start. The
+// method, with its formulas, is written out in docs/fitting.md; the comments here name which
+// formula each step implements.
+#include <ceres/tiny_solver.h>
+#include <fmt/format.h>
+
+#include <Eigen/Core>
+#include <algorithm>
+#include <boost/math/distributions/students_t.hpp>
+#include <cmath>
+
+#include "photolot/fitting/fit.h"
+#include "unit_points.h"
+
+namespace photolot::fitting {
+namespace {
+
+constexpr int kParameters = 2;  // ln R10, gamma
+constexpr int kMaxIterations = 100;
+
+// The loss scale in ln R: a reading within the meter's accuracy is a residual of at most one
+// scale unit.
+double loss_scale(const FitOptions& o) { return std::log1p(o.meter_accuracy_pct / 100.0); }
+
+// Robust losses on a whitened residual r (ln R residual / scale), corner at 1, in Ceres's
+// convention cost = 1/2 rho(r^2):
+//   Huber:  rho(s) = s for s <= 1, 2 sqrt(s) - 1 beyond
+//   Cauchy: rho(s) = ln(1 + s)
+//   none:   rho(s) = s
+// TinySolver minimises 1/2 sum f^2, so each residual is folded: f = sign(r) sqrt(rho(r^2)),
+// which has the same minimum. fold() returns f and df/dr.
+struct Folded {
+  double f;
+  double dfdr;
+};
+
+Folded fold(Loss loss, double r) {
+  switch (loss) {
+    case Loss::none:
+      return {r, 1.0};
+    case Loss::huber: {
+      const double a = std::abs(r);
+      if (a <= 1.0) return {r, 1.0};
+      const double f = std::sqrt(2.0 * a - 1.0);
+      return {std::copysign(f, r), 1.0 / f};
+    }
+    case Loss::cauchy: {
+      const double s = r * r;
+      if (s < 1e-16) return {r, 1.0};  // f = r (1 - s/4 + ...): exact to rounding here
+      const double f = std::sqrt(std::log1p(s));
+      return {std::copysign(f, r), std::abs(r) / ((1.0 + s) * f)};
+    }
+  }
+  return {r, 1.0};
+}
+
+// rho(r^2), the robust weight rho'(r^2) (what iteratively reweighted least squares would use),
+// psi(r) = rho'(r^2) r and psi'(r), all on the whitened residual.
+struct LossTerms {
+  double rho, weight, psi, dpsi;
+};
+
+LossTerms loss_terms(Loss loss, double r) {
+  const double s = r * r;
+  switch (loss) {
+    case Loss::none:
+      return {s, 1.0, r, 1.0};
+    case Loss::huber: {
+      const double a = std::abs(r);
+      if (a <= 1.0) return {s, 1.0, r, 1.0};
+      return {2.0 * a - 1.0, 1.0 / a, std::copysign(1.0, r), 0.0};
+    }
+    case Loss::cauchy: {
+      const double w = 1.0 / (1.0 + s);
+      return {std::log1p(s), w, w * r, (1.0 - s) * w * w};
+    }
+  }
+  return {s, 1.0, r, 1.0};
+}
+
+// The whitened, folded residuals of the power law for TinySolver, with their Jacobian
+// (column-major, residuals x parameters).
+struct PowerLawResiduals {
+  using Scalar = double;
+  enum { NUM_RESIDUALS = Eigen::Dynamic, NUM_PARAMETERS = kParameters };
+
+  const std::vector<double>* x;
+  const std::vector<double>* y;
+  double inv_scale;
+  Loss loss;
+
+  int NumResiduals() const { return static_cast<int>(x->size()); }
+
+  bool operator()(const double* p, double* residuals, double* jacobian) const {
+    const int n = NumResiduals();
+    for (int i = 0; i < n; ++i) {
+      const double xi = (*x)[i];
+      const double r = ((*y)[i] - p[0] + p[1] * xi) * inv_scale;
+      const Folded f = fold(loss, r);
+      residuals[i] = f.f;
+      if (jacobian) {
+        jacobian[i] = -f.dfdr * inv_scale;          // d f / d ln R10
+        jacobian[n + i] = f.dfdr * xi * inv_scale;  // d f / d gamma
+      }
+    }
+    return true;
+  }
+};
+
+// Ordinary least squares of y on x, centred for accuracy; returns {ln R10, gamma}.
+std::array<double, 2> closed_form(const std::vector<double>& x, const std::vector<double>& y,
+                                  double* sxx_out, double* x_mean_out) {
+  const double n = static_cast<double>(x.size());
+  double xm = 0, ym = 0;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    xm += x[i];
+    ym += y[i];
+  }
+  xm /= n;
+  ym /= n;
+  double sxx = 0, sxy = 0;
+  for (std::size_t i = 0; i < x.size(); ++i) {
+    const double dx = x[i] - xm;
+    sxx += dx * dx;
+    sxy += dx * (y[i] - ym);
+  }
+  const double slope = sxy / sxx;
+  *sxx_out = sxx;
+  *x_mean_out = xm;
+  return {ym - slope * xm, -slope};
+}
+
+double t_quantile(int dof, double confidence) {
+  const boost::math::students_t dist(static_cast<double>(dof));
+  return boost::math::quantile(boost::math::complement(dist, (1.0 - confidence) / 2.0));
+}
+
+// Fills everything that follows from the parameters: residuals, weights, outliers, the
+// covariance, intervals, the curve and the message.
+void finish(UnitFit& f, const detail::UnitPoints& pts, std::array<double, 2> params, Loss loss,
+            const FitOptions& o, double sxx, double x_mean) {
+  const double scale = loss_scale(o);
+  const std::size_t n = pts.size();
+  const double ln_r10 = params[0];
+  const double gamma = params[1];
+
+  // Residuals and the sums for Huber's covariance estimate.
+  f.residuals.resize(n);
+  double cost = 0, sum_psi2 = 0, sum_dpsi = 0, sum_dpsi2 = 0, sum_weight = 0, sum_in2 = 0;
+  int inside = 0;
+  for (std::size_t i = 0; i < n; ++i) {
+    PointFit& p = f.residuals[i];
+    p.reading_index = pts.reading_index[i];
+    p.lux = pts.lux[i];
+    p.ohm = pts.ohm[i];
+    p.residual_ln = pts.y[i] - (ln_r10 - gamma * pts.x[i]);
+    const double r = p.residual_ln / scale;
+    const LossTerms t = loss_terms(loss, r);
+    p.weight = t.weight;
+    p.outlier = std::abs(p.residual_ln) > o.outlier_threshold * scale && t.weight < 1.0;
+    cost += 0.5 * t.rho;
+    sum_psi2 += t.psi * t.psi;
+    sum_dpsi += t.dpsi;
+    sum_dpsi2 += t.dpsi * t.dpsi;
+    sum_weight += t.weight;
+    if (std::abs(r) <= 1.0) ++inside;
+    if (p.outlier) {
+      ++f.outlier_points;
+    } else {
+      sum_in2 += p.residual_ln * p.residual_ln;
+    }
+  }
+  const int kept = static_cast<int>(n) - f.outlier_points;
+  f.rms_log_residual = kept > 0 ? std::sqrt(sum_in2 / kept) : kNaN;
+  f.cost = cost;
+
+  // Covariance of (ln R10, gamma): Huber's estimate (H1),
+  //   C = K^2 * [sum psi^2 / (n - p)] / m^2 * scale^2 * (X'X)^-1,
+  //   m = mean psi', K = 1 + (p / n) var(psi') / m^2,
+  // which for Loss::none is s^2 (X'X)^-1 with s^2 = sum r^2 / (n - p), the textbook
+  // least-squares covariance. (X'X)^-1 for rows [1, -x]: var ln R10 = 1/n + x_mean^2 / Sxx,
+  // var gamma = 1 / Sxx, cov = x_mean / Sxx.
+  std::array<double, 4> cov{kNaN, kNaN, kNaN, kNaN};
+  if (f.dof > 0) {
+    const double nn = static_cast<double>(n);
+    double m = sum_dpsi / nn;
+    double k = 1.0 + kParameters / nn * std::max(0.0, sum_dpsi2 / nn - m * m) / (m * m);
+    if (inside < kParameters + 1 && loss != Loss::none) {
+      // Almost every point lies beyond the loss's corner: the scatter is larger than the
+      // meter's accuracy says, and psi' no longer measures the points' pull. Use the mean
+      // robust weight instead (approximate; flagged).
+      m = sum_weight / nn;
+      k = 1.0;
+      f.flags.emplace_back("scatter-above-meter-accuracy");
+    }
+    const double factor = k * k * (sum_psi2 / (nn - kParameters)) / (m * m) * scale * scale;
+    cov = {factor * (1.0 / nn + x_mean * x_mean / sxx), factor * x_mean / sxx,
+           factor * x_mean / sxx, factor / sxx};
+  }
+  f.curve = make_power_law(std::exp(ln_r10), gamma, cov);
+  f.r10_ohm = std::exp(ln_r10);
+  f.gamma = gamma;
+  f.gamma_10_100 = f.curve.two_point_gamma(10.0, 100.0);
+  if (f.dof > 0) {
+    f.ln_r10_sd = std::sqrt(cov[0]);
+    f.gamma_sd = std::sqrt(cov[3]);
+    const double t = t_quantile(f.dof, o.confidence);
+    f.r10_ci95_ohm = {std::exp(ln_r10 - t * f.ln_r10_sd), std::exp(ln_r10 + t * f.ln_r10_sd)};
+    f.gamma_ci95 = {gamma - t * f.gamma_sd, gamma + t * f.gamma_sd};
+  } else {
+    f.curve.covariance.clear();
+  }
+
+  if (f.outlier_points > 0) f.flags.emplace_back("outliers");
+  if (f.dof < 3) f.flags.emplace_back("few-points");
+
+  f.message = fmt::format("fitted {} points over {:.1f} decades; rms {:.2f} %", n,
+                          pts.span_decades, 100.0 * std::expm1(f.rms_log_residual));
+  if (f.outlier_points > 0)
+    f.message += fmt::format("; {} outlier{}", f.outlier_points, f.outlier_points == 1 ? "" : "s");
+  if (f.censored_points > 0) f.message += fmt::format("; {} over range", f.censored_points);
+  if (f.dof == 0) f.message += "; no scatter left to estimate intervals";
+}
+
+// Runs TinySolver on the folded residuals from `start`; false when it did not converge.
+bool solve(const detail::UnitPoints& pts, Loss loss, double scale, std::array<double, 2>& params,
+           int& iterations, std::string& why) {
+  const PowerLawResiduals fn{&pts.x, &pts.y, 1.0 / scale, loss};
+  ceres::TinySolver<PowerLawResiduals> solver;
+  // Whitened residuals make the absolute stopping tests meaningful: a cost change of 1e-12
+  // is far below one part in a thousand of a meter-accuracy residual.
+  solver.options.max_num_iterations = kMaxIterations;
+  solver.options.gradient_tolerance = 1e-12;
+  solver.options.function_tolerance = 1e-12;
+  solver.options.parameter_tolerance = 1e-12;
+  Eigen::Vector2d p(params[0], params[1]);
+  const auto& summary = solver.Solve(fn, &p);
+  iterations += summary.iterations;
+  if (!std::isfinite(p[0]) || !std::isfinite(p[1])) {
+    why = "the solver left the finite numbers";
+    return false;
+  }
+  if (summary.status == ceres::TinySolver<PowerLawResiduals>::HIT_MAX_ITERATIONS) {
+    why = fmt::format("the solver did not converge in {} iterations", kMaxIterations);
+    return false;
+  }
+  params = {p[0], p[1]};
+  return true;
+}
+
+UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
+  const std::string invalid = options.validate();
+  if (!invalid.empty()) {
+    UnitFit f;
+    f.id = unit.id;
+    f.status = FitStatus::solver_failed;
+    f.message = "not fitted: invalid fit options: " + invalid;
+    return f;
+  }
+  const detail::UnitPoints pts = detail::collect_points(unit);
+  UnitFit f = detail::start_unit_fit(unit, pts, options, kParameters);
+  if (!f.ok()) return f;
+
+  double sxx = 0, x_mean = 0;
+  std::array<double, 2> params = closed_form(pts.x, pts.y, &sxx, &x_mean);
+  const Loss loss = robust ? options.loss : Loss::none;
+  if (loss != Loss::none && f.dof > 0) {
+    const double scale = loss_scale(options);
+    std::string why;
+    // Cauchy's loss is not convex: start it from the (convex) Huber minimum so that a decade
+    // slip cannot trap it near the least-squares line.
+    bool ok = true;
+    if (loss == Loss::cauchy) ok = solve(pts, Loss::huber, scale, params, f.iterations, why);
+    if (ok) ok = solve(pts, loss, scale, params, f.iterations, why);
+    if (!ok) {
+      f.status = FitStatus::solver_failed;
+      f.message = "not fitted: " + why;
+      return f;
+    }
+  }
+  finish(f, pts, params, loss, options, sxx, x_mean);
+  return f;
+}
+
+}  // namespace
+
+UnitFit fit_unit(const Unit& unit, const FitOptions& options) { return fit(unit, options, true); }
+
+UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options) {
+  return fit(unit, options, false);
+}
+
+OhmInterval interval_at(const UnitFit& unit_fit, double lux, double confidence) {
+  OhmInterval out;
+  if (!unit_fit.ok() || !(lux > 0)) return out;
+  const double ln_r = unit_fit.curve.ln_ohm(lux);
+  out.ohm = std::exp(ln_r);
+  if (unit_fit.dof <= 0 || unit_fit.curve.covariance.empty() || !(confidence > 0 && confidence < 1))
+    return out;
+  const double half = t_quantile(unit_fit.dof, confidence) * unit_fit.curve.ln_ohm_sd(lux);
+  out.lo_ohm = std::exp(ln_r - half);
+  out.hi_ohm = std::exp(ln_r + half);
+  return out;
+}
+
+}  // namespace photolot::fitting
