@@ -1,0 +1,723 @@
+// Pairing units whose curves track each other. docs/pairing.md gives the measures, the
+// objective, why the candidate search misses no pair within tolerance and what the optimality
+// certificate checks; the comments here point at the steps.
+#include "photolot/pairing.h"
+
+#include <fmt/format.h>
+#include <lemon/matching.h>
+#include <lemon/smart_graph.h>
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+#include <cstdint>
+#include <limits>
+#include <numeric>
+
+#include "lemon_cxx20.h"
+
+namespace photolot {
+namespace {
+
+__extension__ typedef __int128 Wide;  // sums of dual values, beyond int64 for large lots
+
+// Lux values of the evaluation grid: log-spaced, both ends included exactly.
+std::vector<double> grid_lux(const PairOptions& o) {
+  const double decades = std::log10(o.lux_hi / o.lux_lo);
+  const int steps = std::max(1, static_cast<int>(std::ceil(decades * o.grid_points_per_decade)));
+  std::vector<double> lux(static_cast<std::size_t>(steps) + 1);
+  for (int k = 0; k <= steps; ++k)
+    lux[static_cast<std::size_t>(k)] = o.lux_lo * std::pow(o.lux_hi / o.lux_lo, double(k) / steps);
+  lux.front() = o.lux_lo;
+  lux.back() = o.lux_hi;
+  return lux;
+}
+
+double to_pct(double ln_error) { return 100.0 * std::expm1(ln_error); }
+
+// Variance of [ln R(e1) - ln R(e2)] for one curve (e2 <= 0: of ln R(e1) alone); NaN when the
+// covariance is unknown.
+double ln_diff_variance(const Curve& c, double e1, double e2) {
+  const std::size_t n = c.params.size();
+  if (c.covariance.size() != n * n || n == 0) return kNaN;
+  std::vector<double> g = c.gradient(e1);
+  if (e2 > 0) {
+    const std::vector<double> g2 = c.gradient(e2);
+    for (std::size_t i = 0; i < n; ++i) g[i] -= g2[i];
+  }
+  double var = 0;
+  for (std::size_t i = 0; i < n; ++i)
+    for (std::size_t j = 0; j < n; ++j) var += g[i] * c.covariance[i * n + j] * g[j];
+  return std::max(var, 0.0);
+}
+
+// ---------------------------------------------------------------------------------------------
+// The participating units, reduced to what the search needs.
+struct Nodes {
+  TrackingMode mode = TrackingMode::absolute;
+  std::vector<std::size_t> unit;  // node -> index into LotFit::units
+  std::vector<const Curve*> curve;
+  std::vector<double> x, y;         // plane point: absolute (ln R_lo, ln R_hi); trimmable (u, 0)
+  std::vector<std::int32_t> row;    // node -> row of grid_values, -1 for a power law
+  std::vector<double> grid_values;  // ln R on the grid, rows of grid size
+  std::size_t grid_size = 0;
+
+  std::size_t size() const { return unit.size(); }
+
+  // The tracking error in ln units. For two power laws the plane points give it exactly
+  // (Chebyshev distance, or |du|); otherwise the grid does, and the plane distance is a lower
+  // bound of it because both range ends are grid points.
+  double exact_ln(std::size_t i, std::size_t j) const {
+    if (row[i] < 0 && row[j] < 0) return std::max(std::abs(x[i] - x[j]), std::abs(y[i] - y[j]));
+    const double* a = grid_values.data() + (row[i] < 0 ? 0 : row[i] * grid_size);
+    const double* b = grid_values.data() + (row[j] < 0 ? 0 : row[j] * grid_size);
+    double lo = std::numeric_limits<double>::infinity(), hi = -lo, peak = 0;
+    for (std::size_t k = 0; k < grid_size; ++k) {
+      const double d = value(i, a, k) - value(j, b, k);
+      lo = std::min(lo, d);
+      hi = std::max(hi, d);
+      peak = std::max(peak, std::abs(d));
+    }
+    return mode == TrackingMode::absolute ? peak : hi - lo;
+  }
+  double lower_bound_ln(std::size_t i, std::size_t j) const {
+    return std::max(std::abs(x[i] - x[j]), std::abs(y[i] - y[j]));
+  }
+  std::size_t work(std::size_t i, std::size_t j) const {
+    return row[i] < 0 && row[j] < 0 ? 1 : grid_size;
+  }
+
+  std::vector<double> grid_x;  // ln(E / 10 lx) at the grid points
+ private:
+  double value(std::size_t node, const double* rowp, std::size_t k) const {
+    if (row[node] >= 0) return rowp[k];
+    const Curve& c = *curve[node];
+    return c.params[0] - c.params[1] * grid_x[k];
+  }
+};
+
+Nodes make_nodes(const LotFit& fit, const std::vector<std::size_t>& fitted, const PairOptions& o) {
+  Nodes n;
+  n.mode = o.mode;
+  const std::vector<double> lux = grid_lux(o);
+  n.grid_size = lux.size();
+  n.grid_x.resize(lux.size());
+  for (std::size_t k = 0; k < lux.size(); ++k) n.grid_x[k] = std::log(lux[k] / kReferenceLux);
+  for (std::size_t u : fitted) {
+    const Curve& c = fit.units[u].curve;
+    const bool power_law = c.model == ModelKind::power_law;
+    n.unit.push_back(u);
+    n.curve.push_back(&c);
+    const double lo = c.ln_ohm(o.lux_lo), hi = c.ln_ohm(o.lux_hi);
+    if (o.mode == TrackingMode::absolute) {
+      n.x.push_back(lo);
+      n.y.push_back(hi);
+    } else {
+      n.x.push_back(hi - lo);
+      n.y.push_back(0.0);
+    }
+    if (power_law) {
+      n.row.push_back(-1);
+    } else {
+      n.row.push_back(static_cast<std::int32_t>(n.grid_values.size() / n.grid_size));
+      for (double e : lux) n.grid_values.push_back(c.ln_ohm(e));
+    }
+  }
+  return n;
+}
+
+// ---------------------------------------------------------------------------------------------
+// A uniform grid over the plane with cells no smaller than the tolerance: two points within
+// the tolerance (Chebyshev) lie in the same or adjacent cells.
+class CellGrid {
+ public:
+  CellGrid(const Nodes& nodes, double cell) : cell_(cell) {
+    const std::size_t n = nodes.size();
+    std::vector<Key> keys(n);
+    for (std::size_t i = 0; i < n; ++i)
+      keys[i] = {static_cast<std::int64_t>(std::floor(nodes.x[i] / cell)),
+                 static_cast<std::int64_t>(std::floor(nodes.y[i] / cell)),
+                 static_cast<std::uint32_t>(i)};
+    std::sort(keys.begin(), keys.end(), [](const Key& a, const Key& b) {
+      return std::tie(a.cx, a.cy, a.node) < std::tie(b.cx, b.cy, b.node);
+    });
+    order_.resize(n);
+    for (std::size_t i = 0; i < n; ++i) {
+      order_[i] = keys[i].node;
+      if (cells_.empty() || cells_.back().cx != keys[i].cx || cells_.back().cy != keys[i].cy)
+        cells_.push_back({keys[i].cx, keys[i].cy, static_cast<std::uint32_t>(i), 0});
+      cells_.back().end = static_cast<std::uint32_t>(i + 1);
+    }
+  }
+
+  // Calls f(i, j) for every unordered pair of nodes in the same or adjacent cells, once.
+  // Returns false when stopped.
+  template <class F>
+  bool for_each_near_pair(F&& f, const std::stop_token& stop) const {
+    static constexpr std::int64_t kForward[4][2] = {{0, 1}, {1, -1}, {1, 0}, {1, 1}};
+    for (std::size_t c = 0; c < cells_.size(); ++c) {
+      if ((c & 1023) == 0 && stop.stop_requested()) return false;
+      const Cell& a = cells_[c];
+      for (std::uint32_t p = a.begin; p < a.end; ++p)
+        for (std::uint32_t q = p + 1; q < a.end; ++q) f(order_[p], order_[q]);
+      for (const auto& d : kForward) {
+        const Cell* b = find(a.cx + d[0], a.cy + d[1]);
+        if (b == nullptr) continue;
+        for (std::uint32_t p = a.begin; p < a.end; ++p)
+          for (std::uint32_t q = b->begin; q < b->end; ++q) f(order_[p], order_[q]);
+      }
+    }
+    return true;
+  }
+
+ private:
+  struct Key {
+    std::int64_t cx, cy;
+    std::uint32_t node;
+  };
+  struct Cell {
+    std::int64_t cx, cy;
+    std::uint32_t begin, end;
+  };
+  const Cell* find(std::int64_t cx, std::int64_t cy) const {
+    auto it = std::lower_bound(cells_.begin(), cells_.end(), std::pair{cx, cy},
+                               [](const Cell& c, const std::pair<std::int64_t, std::int64_t>& k) {
+                                 return std::tie(c.cx, c.cy) < std::tie(k.first, k.second);
+                               });
+    return it != cells_.end() && it->cx == cx && it->cy == cy ? &*it : nullptr;
+  }
+
+  double cell_;
+  std::vector<std::uint32_t> order_;
+  std::vector<Cell> cells_;
+};
+
+// Every pair within tolerance, exactly: f(i, j, error_pct) with i, j nodes.
+template <class F>
+bool for_each_tolerance_edge(const Nodes& nodes, const CellGrid& grid, double tol_ln,
+                             double tol_pct, F&& f, const std::stop_token& stop) {
+  return grid.for_each_near_pair(
+      [&](std::uint32_t i, std::uint32_t j) {
+        if (nodes.lower_bound_ln(i, j) > tol_ln) return;
+        const double err = to_pct(nodes.exact_ln(i, j));
+        if (err <= tol_pct) f(std::min(i, j), std::max(i, j), err);
+      },
+      stop);
+}
+
+// ---------------------------------------------------------------------------------------------
+struct Edge {
+  std::uint32_t i, j;  // i < j
+  double error_pct;
+  std::int64_t cost;  // error_pct in integer steps of the cost quantum
+};
+
+std::uint64_t edge_key(std::uint32_t i, std::uint32_t j) { return (std::uint64_t(i) << 32) | j; }
+
+struct DisjointSets {
+  std::vector<std::uint32_t> parent;
+  explicit DisjointSets(std::size_t n) : parent(n) { std::iota(parent.begin(), parent.end(), 0u); }
+  std::uint32_t find(std::uint32_t a) {
+    while (parent[a] != a) a = parent[a] = parent[parent[a]];
+    return a;
+  }
+  void unite(std::uint32_t a, std::uint32_t b) {
+    a = find(a);
+    b = find(b);
+    if (a != b) parent[std::max(a, b)] = std::min(a, b);
+  }
+};
+
+// The matching and its dual (LEMON's, scaled by 4 for integer weights), per node of the lot.
+struct Solution {
+  std::vector<std::int64_t> mate;       // node or -1
+  std::vector<std::int64_t> potential;  // y_u
+  struct Blossom {
+    std::int64_t value;  // z_B
+    std::vector<std::uint32_t> members;
+  };
+  std::vector<Blossom> blossoms;
+};
+
+using Graph = lemon::SmartGraph;
+using Matcher = lemon::MaxWeightedMatching<Graph, Graph::EdgeMap<std::int64_t>>;
+
+// Solves one connected component (nodes sorted, edges among them) into `sol`.
+void solve_component(const std::vector<std::uint32_t>& nodes, const std::vector<const Edge*>& edges,
+                     std::int64_t big, std::vector<std::uint32_t>& local, Solution& sol) {
+  Graph g;
+  g.reserveNode(static_cast<int>(nodes.size()));
+  g.reserveEdge(static_cast<int>(edges.size()));
+  std::vector<Graph::Node> handle(nodes.size());
+  for (std::size_t k = 0; k < nodes.size(); ++k) {
+    handle[k] = g.addNode();
+    local[nodes[k]] = static_cast<std::uint32_t>(k);
+  }
+  Graph::EdgeMap<std::int64_t> weight(g);
+  for (const Edge* e : edges) {
+    const Graph::Edge ge = g.addEdge(handle[local[e->i]], handle[local[e->j]]);
+    weight[ge] = big - e->cost;  // positive; more pairs always outweigh lower costs
+  }
+  Matcher m(g, weight);
+  m.run();
+  for (std::size_t k = 0; k < nodes.size(); ++k) {
+    const Graph::Node mate = m.mate(handle[k]);
+    sol.mate[nodes[k]] = mate == lemon::INVALID ? -1 : std::int64_t(nodes[g.id(mate)]);
+    sol.potential[nodes[k]] = m.nodeValue(handle[k]);
+  }
+  for (int b = 0; b < m.blossomNum(); ++b) {
+    Solution::Blossom blossom{m.blossomValue(b), {}};
+    for (Matcher::BlossomIt it(m, b); it != lemon::INVALID; ++it)
+      blossom.members.push_back(nodes[g.id(Graph::Node(it))]);
+    sol.blossoms.push_back(std::move(blossom));
+  }
+}
+
+// The certificate check (docs/pairing.md): y >= 0, z >= 0 on odd sets, dual objective equal to
+// the matching's weight, and y_u + y_v + sum z_B (B holding u and v) >= 4 w_uv on every edge
+// within tolerance. Violating edges are returned; `problem` says what else failed.
+struct CheckResult {
+  std::vector<Edge> violations;
+  std::string problem;
+  bool stopped = false;
+};
+
+struct Costing {
+  double quantum_pct = 0;  // one integer step of cost
+  std::int64_t max_cost = 0;
+  std::int64_t big = 1;
+  std::int64_t cost(double error_pct) const {
+    if (quantum_pct <= 0) return 0;
+    return std::clamp<std::int64_t>(std::llround(error_pct / quantum_pct), 0, max_cost);
+  }
+};
+
+CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const PairOptions& o,
+                              double tol_ln, const Costing& costing, const Solution& sol,
+                              const std::vector<Edge>& edges, const std::stop_token& stop) {
+  CheckResult r;
+  const std::size_t n = nodes.size();
+  // Blossoms holding each node (a laminar family: a short chain per node).
+  std::vector<std::uint32_t> offset(n + 1, 0);
+  for (const auto& b : sol.blossoms)
+    for (std::uint32_t v : b.members) ++offset[v + 1];
+  for (std::size_t v = 0; v < n; ++v) offset[v + 1] += offset[v];
+  std::vector<std::uint32_t> member_of(offset[n]);
+  {
+    std::vector<std::uint32_t> fill(offset.begin(), offset.end() - 1);
+    for (std::size_t b = 0; b < sol.blossoms.size(); ++b)
+      for (std::uint32_t v : sol.blossoms[b].members) member_of[fill[v]++] = std::uint32_t(b);
+  }
+  Wide dual = 0, primal = 0;
+  for (std::size_t v = 0; v < n; ++v) {
+    if (sol.potential[v] < 0 && r.problem.empty())
+      r.problem = fmt::format("negative node potential at unit index {}", nodes.unit[v]);
+    dual += sol.potential[v];
+  }
+  for (const auto& b : sol.blossoms) {
+    if ((b.value < 0 || b.members.size() % 2 == 0) && r.problem.empty())
+      r.problem = "a blossom of the dual is not an odd set with a non-negative value";
+    dual += Wide(b.value) * std::int64_t(b.members.size() / 2);
+  }
+  for (const Edge& e : edges)
+    if (sol.mate[e.i] == std::int64_t(e.j)) primal += costing.big - e.cost;
+  if (dual != primal * Matcher::dualScale && r.problem.empty())
+    r.problem = "the dual objective differs from the matching's weight";
+
+  const bool ok = for_each_tolerance_edge(
+      nodes, grid, tol_ln, o.tolerance_pct,
+      [&](std::uint32_t i, std::uint32_t j, double err) {
+        const std::int64_t c = costing.cost(err);
+        Wide cover = Wide(sol.potential[i]) + sol.potential[j];
+        if (offset[i] != offset[i + 1] && offset[j] != offset[j + 1]) {
+          for (std::uint32_t p = offset[i]; p < offset[i + 1]; ++p)
+            for (std::uint32_t q = offset[j]; q < offset[j + 1]; ++q)
+              if (member_of[p] == member_of[q]) cover += sol.blossoms[member_of[p]].value;
+        }
+        if (cover < Wide(Matcher::dualScale) * (costing.big - c))
+          r.violations.push_back({i, j, err, c});
+      },
+      stop);
+  r.stopped = !ok;
+  return r;
+}
+
+std::string fmt_pct(double v) { return fmt::format("{:.3f} %", v); }
+
+}  // namespace
+
+// ---------------------------------------------------------------------------------------------
+std::string_view to_string(TrackingMode mode) {
+  switch (mode) {
+    case TrackingMode::absolute:
+      return "absolute";
+    case TrackingMode::trimmable:
+      return "trimmable";
+  }
+  return "?";
+}
+
+std::optional<TrackingMode> parse_tracking_mode(std::string_view text) {
+  if (text == "absolute") return TrackingMode::absolute;
+  if (text == "trimmable") return TrackingMode::trimmable;
+  return std::nullopt;
+}
+
+std::string_view to_string(ProofStatus status) {
+  switch (status) {
+    case ProofStatus::proved_optimal:
+      return "proved optimal";
+    case ProofStatus::not_proved:
+      return "not proved";
+  }
+  return "?";
+}
+
+std::string PairOptions::validate() const {
+  if (!(std::isfinite(lux_lo) && lux_lo > 0))
+    return fmt::format("lux_lo = {} must be a finite illuminance above 0 lx", lux_lo);
+  if (!(std::isfinite(lux_hi) && lux_hi > lux_lo))
+    return fmt::format("lux_hi = {} must be finite and above lux_lo = {}", lux_hi, lux_lo);
+  if (!(std::isfinite(tolerance_pct) && tolerance_pct >= 0 && tolerance_pct <= 100))
+    return fmt::format("tolerance_pct = {} must be between 0 and 100", tolerance_pct);
+  if (mode != TrackingMode::absolute && mode != TrackingMode::trimmable)
+    return fmt::format("mode = {} must be absolute or trimmable", int(mode));
+  if (candidate_cap_per_unit < 0)
+    return fmt::format("candidate_cap_per_unit = {} must be 0 (no cap) or more",
+                       candidate_cap_per_unit);
+  if (grid_points_per_decade < 2 || grid_points_per_decade > 10000)
+    return fmt::format("grid_points_per_decade = {} must be between 2 and 10000",
+                       grid_points_per_decade);
+  if (max_repair_rounds < 1)
+    return fmt::format("max_repair_rounds = {} must be at least 1", max_repair_rounds);
+  return {};
+}
+
+TrackingError tracking_error(const Curve& a, const Curve& b, const PairOptions& o) {
+  const bool closed_form = a.model == ModelKind::power_law && b.model == ModelKind::power_law;
+  const std::vector<double> lux =
+      closed_form ? std::vector<double>{o.lux_lo, o.lux_hi} : grid_lux(o);
+  std::size_t k_peak = 0, k_hi = lux.size() - 1, k_lo = 0;
+  double peak = -1, hi = -std::numeric_limits<double>::infinity(), lo = -hi;
+  for (std::size_t k = 0; k < lux.size(); ++k) {
+    const double d = a.ln_ohm(lux[k]) - b.ln_ohm(lux[k]);
+    if (std::abs(d) > peak) peak = std::abs(d), k_peak = k;
+    if (d > hi) hi = d, k_hi = k;
+    if (d < lo) lo = d, k_lo = k;
+  }
+  TrackingError r;
+  double ln_error = 0, var = 0;
+  if (o.mode == TrackingMode::absolute) {
+    ln_error = peak;
+    r.worst_lux = lux[k_peak];
+    var = ln_diff_variance(a, r.worst_lux, 0) + ln_diff_variance(b, r.worst_lux, 0);
+  } else {
+    // A flat d has no extreme points of its own: its drift is read between the range ends.
+    if (k_hi == k_lo) k_hi = lux.size() - 1, k_lo = 0;
+    ln_error = hi - lo;
+    r.worst_lux = lux[k_hi];
+    r.other_lux = lux[k_lo];
+    var = ln_diff_variance(a, r.worst_lux, r.other_lux) +
+          ln_diff_variance(b, r.worst_lux, r.other_lux);
+  }
+  r.error_pct = to_pct(ln_error);
+  // f = 100 (exp(D) - 1): df/dD = 100 exp(D)
+  r.sigma_pct = 100.0 * std::exp(ln_error) * std::sqrt(var);
+  return r;
+}
+
+Pairing pair_units(const LotFit& fit, const PairOptions& options, const ProgressFn& progress,
+                   std::stop_token stop) {
+  std::vector<std::size_t> all;
+  for (std::size_t u = 0; u < fit.units.size(); ++u)
+    if (fit.units[u].ok()) all.push_back(u);
+  return pair_units(fit, all, options, progress, std::move(stop));
+}
+
+Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
+                   const PairOptions& o, const ProgressFn& progress, std::stop_token stop) {
+  assert(o.validate().empty());
+  Pairing out;
+  out.options = o;
+  out.counts.eligible = eligible.size();
+
+  std::vector<std::size_t> chosen = eligible;
+  std::sort(chosen.begin(), chosen.end());
+  chosen.erase(std::unique(chosen.begin(), chosen.end()), chosen.end());
+  std::vector<std::size_t> fitted;
+  for (std::size_t u : chosen) {
+    assert(u < fit.units.size());
+    const UnitFit& f = fit.units[u];
+    if (f.ok()) {
+      fitted.push_back(u);
+    } else {
+      out.unpaired.push_back({u,
+                              f.id,
+                              fmt::format("no fitted curve ({})", to_string(f.status)),
+                              std::nullopt,
+                              {},
+                              kNaN});
+    }
+  }
+  out.counts.fitted = fitted.size();
+  const Nodes nodes = make_nodes(fit, fitted, o);
+  const std::size_t n = nodes.size();
+  const std::size_t total_work = 3 * n + 1;
+  auto report = [&](std::size_t done) {
+    if (progress) progress(std::min(done, total_work), total_work);
+  };
+  auto cancelled = [&]() {
+    Pairing c;
+    c.options = o;
+    c.counts.eligible = eligible.size();
+    c.counts.fitted = fitted.size();
+    c.cancelled = true;
+    c.proof_detail = "cancelled before the pairing was complete";
+    return c;
+  };
+
+  // 1. Candidates within tolerance, from a grid over the plane (docs/pairing.md, "search").
+  const double tol_ln = std::log1p(o.tolerance_pct / 100.0);
+  const CellGrid grid(nodes, std::max(tol_ln, 1e-9) * (1 + 1e-9));
+
+  // Integer costs: the tolerance in 2^20 steps, fewer if the weights would overflow.
+  Costing costing;
+  {
+    std::int64_t steps = std::int64_t(1) << 20;
+    const double half = double(n / 2 + 1);
+    while (steps > 1 && 8.0 * half * half * double(steps) > 4e18) steps /= 2;
+    costing.quantum_pct = o.tolerance_pct > 0 ? o.tolerance_pct / double(steps) : 0;
+    costing.max_cost = o.tolerance_pct > 0 ? steps : 0;
+    // BIG above (N/2 + 1) x the largest cost: one more pair always outweighs any total cost.
+    costing.big = (std::int64_t(n / 2) + 1) * costing.max_cost + 1;
+  }
+
+  const std::size_t cap = static_cast<std::size_t>(o.candidate_cap_per_unit);
+  std::vector<Edge> edges;
+  std::vector<double> nearest_err(n, kNaN);
+  std::vector<std::int64_t> nearest(n, -1);
+  std::vector<std::pair<double, std::uint32_t>> heap(cap > 0 ? n * cap : 0);
+  std::vector<std::uint32_t> heap_size(cap > 0 ? n : 0, 0);
+  auto offer = [&](std::uint32_t v, std::uint32_t other, double err) {
+    if (nearest[v] < 0 || err < nearest_err[v] ||
+        (err == nearest_err[v] && std::int64_t(other) < nearest[v]))
+      nearest[v] = other, nearest_err[v] = err;
+    if (cap == 0) return;
+    auto* h = heap.data() + std::size_t(v) * cap;
+    const std::pair<double, std::uint32_t> item{err, other};
+    if (heap_size[v] < cap) {
+      h[heap_size[v]++] = item;
+      std::push_heap(h, h + heap_size[v]);
+    } else if (item < h[0]) {
+      std::pop_heap(h, h + cap);
+      h[cap - 1] = item;
+      std::push_heap(h, h + cap);
+    }
+  };
+  std::size_t tolerance_edges = 0;
+  if (!for_each_tolerance_edge(
+          nodes, grid, tol_ln, o.tolerance_pct,
+          [&](std::uint32_t i, std::uint32_t j, double err) {
+            ++tolerance_edges;
+            offer(i, j, err);
+            offer(j, i, err);
+            if (cap == 0) edges.push_back({i, j, err, costing.cost(err)});
+          },
+          stop))
+    return cancelled();
+  out.counts.tolerance_edges = tolerance_edges;
+  if (cap > 0) {
+    for (std::uint32_t v = 0; v < n; ++v)
+      for (std::uint32_t k = 0; k < heap_size[v]; ++k) {
+        const auto [err, other] = heap[std::size_t(v) * cap + k];
+        if (v < other) {
+          edges.push_back({v, other, err, costing.cost(err)});
+        } else {
+          // Kept once: by the lower node, unless the lower node's own list dropped it.
+          const auto* h = heap.data() + std::size_t(other) * cap;
+          const bool kept_by_other =
+              std::find(h, h + heap_size[other], std::pair{err, v}) != h + heap_size[other];
+          if (!kept_by_other) edges.push_back({other, v, err, costing.cost(err)});
+        }
+      }
+    heap.clear();
+    heap.shrink_to_fit();
+  }
+  report(n);
+
+  // 2. Solve per connected component, check the certificate on every edge within tolerance,
+  //    add the edges that violate it and solve the touched components again.
+  Solution sol;
+  sol.mate.assign(n, -1);
+  sol.potential.assign(n, 0);
+  std::vector<std::uint32_t> local(n);
+  std::vector<std::uint32_t> touched(n);  // endpoints of edges added since the last solve
+  std::iota(touched.begin(), touched.end(), 0u);
+  std::vector<std::uint64_t> keys;
+  bool proved = false;
+  std::string why_not;
+  std::size_t round = 0;
+  for (; round < std::size_t(o.max_repair_rounds); ++round) {
+    std::sort(edges.begin(), edges.end(),
+              [](const Edge& a, const Edge& b) { return std::tie(a.i, a.j) < std::tie(b.i, b.j); });
+    DisjointSets sets(n);
+    for (const Edge& e : edges) sets.unite(e.i, e.j);
+    std::vector<std::vector<std::uint32_t>> members(n);
+    for (std::uint32_t v = 0; v < n; ++v) members[sets.find(v)].push_back(v);
+    std::vector<std::vector<const Edge*>> comp_edges(n);
+    for (const Edge& e : edges) comp_edges[sets.find(e.i)].push_back(&e);
+    // Edges are only ever added, so a component without a new edge is one solved before.
+    std::vector<char> dirty(n, 0);
+    for (std::uint32_t v : touched) dirty[sets.find(v)] = 1;
+    std::erase_if(sol.blossoms,
+                  [&](const Solution::Blossom& b) { return dirty[sets.find(b.members[0])]; });
+
+    std::size_t components = 0, largest = 0, solved = 0;
+    for (std::uint32_t root = 0; root < n; ++root) {
+      if (comp_edges[root].empty()) continue;
+      ++components;
+      largest = std::max(largest, members[root].size());
+      if (!dirty[root]) continue;
+      if (stop.stop_requested()) return cancelled();
+      solve_component(members[root], comp_edges[root], costing.big, local, sol);
+      solved += members[root].size();
+      report(n + std::min(solved, n));
+    }
+    out.counts.components = components;
+    out.counts.largest_component = largest;
+
+    CheckResult check = check_certificate(nodes, grid, o, tol_ln, costing, sol, edges, stop);
+    if (check.stopped) return cancelled();
+    report(3 * n);
+    if (!check.problem.empty()) {
+      why_not = check.problem;
+      break;
+    }
+    if (check.violations.empty()) {
+      proved = true;
+      break;
+    }
+    keys.clear();
+    for (const Edge& e : edges) keys.push_back(edge_key(e.i, e.j));
+    std::sort(keys.begin(), keys.end());
+    touched.clear();
+    for (const Edge& e : check.violations) {
+      if (std::binary_search(keys.begin(), keys.end(), edge_key(e.i, e.j))) {
+        why_not = fmt::format(
+            "the dual check failed on an edge the matching saw (unit indices {} and {})",
+            nodes.unit[e.i], nodes.unit[e.j]);
+        break;
+      }
+      edges.push_back(e);
+      touched.push_back(e.i);
+      touched.push_back(e.j);
+    }
+    if (!why_not.empty()) break;
+    out.counts.repaired_edges += check.violations.size();
+  }
+  out.counts.rounds = std::min<std::size_t>(round + 1, std::size_t(o.max_repair_rounds));
+  out.counts.matched_edges = edges.size();
+  if (proved) {
+    out.proof = ProofStatus::proved_optimal;
+    out.proof_detail = fmt::format(
+        "dual certificate checked on all {} pairs within tolerance ({} solve round{}, {} edge{} "
+        "added by the check)",
+        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s",
+        out.counts.repaired_edges, out.counts.repaired_edges == 1 ? "" : "s");
+  } else {
+    out.proof = ProofStatus::not_proved;
+    out.proof_detail =
+        why_not.empty()
+            ? fmt::format("improving pairs remained after {} repair rounds", o.max_repair_rounds)
+            : why_not;
+  }
+
+  // 3. The result.
+  std::size_t pairs = 0;
+  for (std::uint32_t v = 0; v < n; ++v) {
+    if (sol.mate[v] < 0 || sol.mate[v] < std::int64_t(v)) continue;
+    const auto w = static_cast<std::uint32_t>(sol.mate[v]);
+    const UnitFit& a = fit.units[nodes.unit[v]];
+    const UnitFit& b = fit.units[nodes.unit[w]];
+    const TrackingError te = tracking_error(a.curve, b.curve, o);
+    out.pairs.push_back(
+        {nodes.unit[v], nodes.unit[w], a.id, b.id, te.error_pct, te.sigma_pct, te.worst_lux});
+    out.total_error_pct += te.error_pct;
+    ++pairs;
+  }
+  std::sort(out.pairs.begin(), out.pairs.end(), [](const UnitPair& x, const UnitPair& y) {
+    return std::tie(x.tracking_error_pct, x.a_id, x.b_id) <
+           std::tie(y.tracking_error_pct, y.a_id, y.b_id);
+  });
+  // Each of two matchings of k pairs is off by at most k/2 quanta after rounding.
+  out.total_error_rounding_bound_pct = double(pairs) * costing.quantum_pct;
+
+  // Unpaired: the nearest unit within tolerance (taken by another pair), or else the nearest
+  // unit at all, found by walking outward along x, whose gap bounds the error from below.
+  std::vector<std::uint32_t> by_x(n);
+  std::iota(by_x.begin(), by_x.end(), 0u);
+  std::sort(by_x.begin(), by_x.end(), [&](std::uint32_t a, std::uint32_t b) {
+    return std::tie(nodes.x[a], a) < std::tie(nodes.x[b], b);
+  });
+  std::vector<std::uint32_t> rank(n);
+  for (std::uint32_t r = 0; r < n; ++r) rank[by_x[r]] = r;
+  std::size_t budget = 50'000'000;
+  for (std::uint32_t v = 0; v < n; ++v) {
+    if (sol.mate[v] >= 0) continue;
+    UnpairedUnit u;
+    u.index = nodes.unit[v];
+    u.id = fit.units[u.index].id;
+    if (nearest[v] >= 0) {
+      const auto w = static_cast<std::uint32_t>(nearest[v]);
+      u.nearest = nodes.unit[w];
+      u.nearest_id = fit.units[nodes.unit[w]].id;
+      u.nearest_error_pct = nearest_err[v];
+      const std::string mate_id =
+          sol.mate[w] >= 0 ? fit.units[nodes.unit[std::size_t(sol.mate[w])]].id : "";
+      u.reason = fmt::format("every unit within tolerance is in a pair; nearest {} at {}{}",
+                             u.nearest_id, fmt_pct(u.nearest_error_pct),
+                             mate_id.empty() ? "" : fmt::format(", paired with {}", mate_id));
+    } else if (n < 2) {
+      u.reason = "no other unit to pair with";
+    } else {
+      double best = std::numeric_limits<double>::infinity();
+      std::int64_t best_node = -1;
+      std::int64_t l = std::int64_t(rank[v]) - 1, r = std::int64_t(rank[v]) + 1;
+      bool exhausted = false;
+      while (l >= 0 || r < std::int64_t(n)) {
+        const double gl = l >= 0 ? nodes.x[v] - nodes.x[by_x[l]] : kNaN;
+        const double gr = r < std::int64_t(n) ? nodes.x[by_x[r]] - nodes.x[v] : kNaN;
+        const bool left = r >= std::int64_t(n) || (l >= 0 && gl <= gr);
+        const double gap = left ? gl : gr;
+        if (gap >= best) break;
+        const std::uint32_t w = left ? by_x[l--] : by_x[r++];
+        const std::size_t cost = nodes.work(v, w);
+        if (budget < cost) {
+          exhausted = true;
+          break;
+        }
+        budget -= cost;
+        const double d = nodes.exact_ln(v, w);
+        if (d < best || (d == best && std::int64_t(w) < best_node)) best = d, best_node = w;
+      }
+      if (best_node >= 0 && !exhausted) {
+        u.nearest = nodes.unit[std::size_t(best_node)];
+        u.nearest_id = fit.units[*u.nearest].id;
+        u.nearest_error_pct = to_pct(best);
+        u.reason = fmt::format("no unit within tolerance; nearest {} at {}", u.nearest_id,
+                               fmt_pct(u.nearest_error_pct));
+      } else {
+        u.reason = "no unit within tolerance";
+      }
+    }
+    out.unpaired.push_back(std::move(u));
+  }
+  std::sort(out.unpaired.begin(), out.unpaired.end(),
+            [](const UnpairedUnit& a, const UnpairedUnit& b) { return a.index < b.index; });
+  out.counts.pairs = out.pairs.size();
+  out.counts.unpaired = out.unpaired.size();
+  report(total_work);
+  return out;
+}
+
+}  // namespace photolot

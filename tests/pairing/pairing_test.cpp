@@ -1,0 +1,427 @@
+// The pairing against brute force, planted answers and the definitions of the two measures.
+#include "photolot/pairing.h"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <random>
+#include <set>
+#include <string>
+#include <vector>
+
+#include "pairing_support.h"
+
+using photolot::LotFit;
+using photolot::Pairing;
+using photolot::PairOptions;
+using photolot::ProofStatus;
+using photolot::TrackingMode;
+using photolot::test::dense_error_pct;
+using photolot::test::unit_from;
+using photolot::test::unit_through;
+
+namespace {
+
+const double kLnR = std::log(100e3);    // a plane origin: 100 kOhm at 1 lx ...
+const double kLnRHi = std::log(500.0);  // ... and 500 ohm at 1000 lx (gamma about 0.77)
+
+// The best pairing by enumerating every matching of the graph of pairs within tolerance:
+// largest number of pairs, then smallest total error. Errors from the definition (range ends
+// for power laws, where d(E) is linear in ln E).
+struct Best {
+  int pairs = 0;
+  double total = 0;
+};
+Best brute_force(const LotFit& fit, const PairOptions& o) {
+  const int n = int(fit.units.size());
+  std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
+  for (int i = 0; i < n; ++i)
+    for (int j = i + 1; j < n; ++j) {
+      const auto& a = fit.units[i].curve;
+      const auto& b = fit.units[j].curve;
+      const double dlo = a.ln_ohm(o.lux_lo) - b.ln_ohm(o.lux_lo);
+      const double dhi = a.ln_ohm(o.lux_hi) - b.ln_ohm(o.lux_hi);
+      const double ln_e = o.mode == TrackingMode::absolute ? std::max(std::abs(dlo), std::abs(dhi))
+                                                           : std::abs(dhi - dlo);
+      const double pct = 100 * std::expm1(ln_e);
+      if (pct <= o.tolerance_pct) err[i][j] = err[j][i] = pct;
+    }
+  Best best;
+  std::vector<char> used(n, 0);
+  std::function<void(int, int, double)> go = [&](int from, int pairs, double total) {
+    int v = from;
+    while (v < n && used[v]) ++v;
+    if (v >= n) {
+      if (pairs > best.pairs || (pairs == best.pairs && total < best.total)) best = {pairs, total};
+      return;
+    }
+    used[v] = 1;
+    go(v + 1, pairs, total);  // v stays single
+    for (int w = v + 1; w < n; ++w)
+      if (!used[w] && err[v][w] >= 0) {
+        used[w] = 1;
+        go(v + 1, pairs + 1, total + err[v][w]);
+        used[w] = 0;
+      }
+    used[v] = 0;
+  };
+  go(0, 0, 0.0);
+  return best;
+}
+
+LotFit random_plane_lot(std::mt19937_64& rng, int n, double side_ln) {
+  std::uniform_real_distribution<double> u(0, side_ln);
+  LotFit fit;
+  for (int i = 0; i < n; ++i)
+    fit.units.push_back(unit_through("U" + std::to_string(i), kLnR + u(rng), kLnRHi + u(rng)));
+  return fit;
+}
+
+bool is_matching(const Pairing& p, std::size_t n) {
+  std::set<std::size_t> seen;
+  for (const auto& pr : p.pairs)
+    if (!seen.insert(pr.a).second || !seen.insert(pr.b).second) return false;
+  for (const auto& u : p.unpaired)
+    if (!seen.insert(u.index).second) return false;
+  return seen.size() == n;
+}
+
+}  // namespace
+
+TEST(Pairing, MatchesBruteForceOnSmallLotsInBothModes) {
+  // Reference: exhaustive enumeration of all matchings (the definition of the objective).
+  std::mt19937_64 rng(20261201);
+  for (int seed = 0; seed < 150; ++seed) {
+    const int n = 2 + seed % 11;  // 2 ... 12 units
+    const LotFit fit = random_plane_lot(rng, n, 0.06);
+    for (TrackingMode mode : {TrackingMode::absolute, TrackingMode::trimmable}) {
+      PairOptions o;
+      o.mode = mode;
+      o.tolerance_pct = 2.0;
+      const Pairing p = photolot::pair_units(fit, o);
+      const Best best = brute_force(fit, o);
+      ASSERT_TRUE(is_matching(p, fit.units.size()));
+      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " n " << n;
+      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
+          << "seed " << seed << " n " << n;
+      EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+      for (const auto& pr : p.pairs) EXPECT_LE(pr.tracking_error_pct, o.tolerance_pct);
+    }
+  }
+}
+
+TEST(Pairing, RepairsACandidateCapThatMissesImprovingPairs) {
+  // With one candidate per unit the capped graph often lacks the pairs the optimum needs; the
+  // dual check must find them, so the result still equals brute force (exhaustive reference).
+  std::mt19937_64 rng(77);
+  std::size_t repaired = 0;
+  for (int seed = 0; seed < 120; ++seed) {
+    const int n = 4 + seed % 9;
+    const LotFit fit = random_plane_lot(rng, n, 0.05);
+    PairOptions o;
+    o.candidate_cap_per_unit = 1;
+    const Pairing p = photolot::pair_units(fit, o);
+    const Best best = brute_force(fit, o);
+    EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed;
+    EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
+    EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+    repaired += p.counts.repaired_edges;
+  }
+  EXPECT_GT(repaired, 0u) << "no lot exercised the repair";
+}
+
+TEST(Pairing, HandBuiltStarIsRepairedIntoTwoPairs) {
+  // Plane offsets in units of 0.01 (ln): A (0, 0), B (0.1, 0.1), C (-0.5, 0), D (0.05, -0.52).
+  // Nearest candidates: A-B for A and B, A for C (0.50) and for D (0.52), so with one candidate
+  // per unit the graph is a star on A plus B: one pair at most. Within a 0.65 tolerance C-D
+  // (0.55) exists, and A-B + C-D (0.10 + 0.55) is the optimum of two pairs (by hand).
+  auto at = [](const std::string& id, double dx, double dy) {
+    return unit_through(id, kLnR + 0.01 * dx, kLnRHi + 0.01 * dy);
+  };
+  LotFit fit;
+  fit.units = {at("A", 0, 0), at("B", 0.1, 0.1), at("C", -0.5, 0), at("D", 0.05, -0.52)};
+  PairOptions o;
+  o.tolerance_pct = 100 * std::expm1(0.0065);
+  o.candidate_cap_per_unit = 1;
+  const Pairing p = photolot::pair_units(fit, o);
+  ASSERT_EQ(p.pairs.size(), 2u);
+  EXPECT_GT(p.counts.repaired_edges, 0u);
+  EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+  std::set<std::pair<std::string, std::string>> got;
+  for (const auto& pr : p.pairs) got.insert({pr.a_id, pr.b_id});
+  EXPECT_EQ(got, (std::set<std::pair<std::string, std::string>>{{"A", "B"}, {"C", "D"}}));
+  EXPECT_NEAR(p.total_error_pct, 100 * std::expm1(0.001) + 100 * std::expm1(0.0055), 1e-6);
+}
+
+TEST(Pairing, PairsShuffledPlantedTwinsBackTogether) {
+  // A lot of 300 twins (a second unit within 0.05 % of the first) spread like a real batch
+  // (R10 spread 15 % in ln, gamma 0.03): the twins are the unique best pairing.
+  std::mt19937_64 rng(5);
+  std::normal_distribution<double> ln_r10(std::log(20e3), 0.15), gamma(0.75, 0.03);
+  std::uniform_real_distribution<double> wiggle(-2.5e-4, 2.5e-4);
+  LotFit fit;
+  for (int t = 0; t < 300; ++t) {
+    const double r = ln_r10(rng), g = gamma(rng);
+    for (int k = 0; k < 2; ++k)
+      fit.units.push_back(
+          unit_from("T" + std::to_string(t) + (k ? "b" : "a"),
+                    photolot::make_power_law(std::exp(r + wiggle(rng)), g + wiggle(rng) / 10)));
+  }
+  std::shuffle(fit.units.begin(), fit.units.end(), rng);
+  const Pairing p = photolot::pair_units(fit, PairOptions{});
+  ASSERT_EQ(p.pairs.size(), 300u);
+  EXPECT_TRUE(p.unpaired.empty());
+  EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+  for (const auto& pr : p.pairs) {
+    EXPECT_EQ(pr.a_id.substr(0, pr.a_id.size() - 1), pr.b_id.substr(0, pr.b_id.size() - 1))
+        << pr.a_id << " with " << pr.b_id;
+  }
+}
+
+TEST(TrackingError, AbsoluteErrorOfPowerLawsIsTheChebyshevDistanceOfTheEndPoints) {
+  // Reference: max |d(E)| evaluated on 20001 points over the range (the definition).
+  std::mt19937_64 rng(11);
+  std::normal_distribution<double> ln_r10(std::log(20e3), 0.2), gamma(0.75, 0.05);
+  for (int k = 0; k < 200; ++k) {
+    const auto a = photolot::make_power_law(std::exp(ln_r10(rng)), gamma(rng));
+    const auto b = photolot::make_power_law(std::exp(ln_r10(rng)), gamma(rng));
+    for (TrackingMode mode : {TrackingMode::absolute, TrackingMode::trimmable}) {
+      PairOptions o;
+      o.mode = mode;
+      const double ours = photolot::tracking_error(a, b, o).error_pct;
+      const double dense = dense_error_pct(a, b, mode == TrackingMode::trimmable);
+      EXPECT_NEAR(ours, dense, 1e-9 * std::max(1.0, dense));
+    }
+    // And the Chebyshev form itself.
+    const double cheb =
+        std::max(std::abs(a.ln_ohm(1) - b.ln_ohm(1)), std::abs(a.ln_ohm(1000) - b.ln_ohm(1000)));
+    EXPECT_NEAR(photolot::tracking_error(a, b, PairOptions{}).error_pct, 100 * std::expm1(cheb),
+                1e-9);
+  }
+}
+
+TEST(TrackingError, DarkConductanceCurvesAreReadOnTheGrid) {
+  // d(E) is not linear here: the extremes can lie inside the range. The 40-per-decade grid
+  // must agree with a 20001-point evaluation of the definition to a small fraction.
+  std::mt19937_64 rng(3);
+  std::uniform_real_distribution<double> g(1e-8, 3e-6), lg(std::log(1 / 25e3), std::log(1 / 15e3));
+  for (int k = 0; k < 50; ++k) {
+    photolot::Curve a, b;
+    a.model = b.model = photolot::ModelKind::dark_conductance;
+    a.params = {lg(rng), 0.8, g(rng)};
+    b.params = {lg(rng), 0.75, g(rng)};
+    for (bool trim : {false, true}) {
+      PairOptions o;
+      o.mode = trim ? TrackingMode::trimmable : TrackingMode::absolute;
+      const double ours = photolot::tracking_error(a, b, o).error_pct;
+      const double dense = dense_error_pct(a, b, trim);
+      EXPECT_LE(ours, dense * (1 + 1e-12));
+      EXPECT_NEAR(ours, dense, 2e-3 * dense + 1e-9);
+    }
+  }
+}
+
+TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
+  // Power laws and dark-conductance curves together; brute force over matchings with errors
+  // from our tracking_error (checked above against the dense definition).
+  std::mt19937_64 rng(8);
+  std::uniform_real_distribution<double> lg(std::log(1 / 21e3), std::log(1 / 19e3)), gm(0.74, 0.76),
+      gd(0, 2e-6);
+  for (int seed = 0; seed < 30; ++seed) {
+    LotFit fit;
+    const int n = 4 + seed % 7;
+    for (int i = 0; i < n; ++i) {
+      photolot::Curve c;
+      c.model = photolot::ModelKind::dark_conductance;
+      c.params = {lg(rng), gm(rng), i % 2 ? gd(rng) : 0.0};
+      if (i % 3 == 0) c = photolot::make_power_law(std::exp(-c.params[0]), c.params[1]);
+      fit.units.push_back(unit_from("M" + std::to_string(i), c));
+    }
+    PairOptions o;
+    o.tolerance_pct = 4;
+    const Pairing p = photolot::pair_units(fit, o);
+    // brute force with tracking_error
+    std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
+    for (int i = 0; i < n; ++i)
+      for (int j = i + 1; j < n; ++j) {
+        const double e =
+            photolot::tracking_error(fit.units[i].curve, fit.units[j].curve, o).error_pct;
+        if (e <= o.tolerance_pct) err[i][j] = err[j][i] = e;
+      }
+    Best best;
+    std::vector<char> used(n, 0);
+    std::function<void(int, int, double)> go = [&](int from, int pairs, double total) {
+      int v = from;
+      while (v < n && used[v]) ++v;
+      if (v >= n) {
+        if (pairs > best.pairs || (pairs == best.pairs && total < best.total))
+          best = {pairs, total};
+        return;
+      }
+      used[v] = 1;
+      go(v + 1, pairs, total);
+      for (int w = v + 1; w < n; ++w)
+        if (!used[w] && err[v][w] >= 0) {
+          used[w] = 1;
+          go(v + 1, pairs + 1, total + err[v][w]);
+          used[w] = 0;
+        }
+      used[v] = 0;
+    };
+    go(0, 0, 0.0);
+    EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed;
+    EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
+    EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+  }
+}
+
+TEST(Pairing, ReportsEveryUnitAsUnpairedWhenNoPairIsWithinTolerance) {
+  // Units 5 % apart in ln R at both ends with a 2 % tolerance.
+  LotFit fit;
+  for (int i = 0; i < 5; ++i)
+    fit.units.push_back(unit_through("F" + std::to_string(i), kLnR + 0.05 * i, kLnRHi + 0.05 * i));
+  const Pairing p = photolot::pair_units(fit, PairOptions{});
+  EXPECT_TRUE(p.pairs.empty());
+  ASSERT_EQ(p.unpaired.size(), 5u);
+  EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+  for (const auto& u : p.unpaired) {
+    EXPECT_NE(u.reason.find("no unit within tolerance"), std::string::npos) << u.reason;
+    ASSERT_TRUE(u.nearest.has_value());
+    // The nearest is a neighbour on the line, 0.05 away in ln at both ends.
+    EXPECT_NEAR(u.nearest_error_pct, 100 * std::expm1(0.05), 1e-9);
+  }
+}
+
+TEST(Pairing, LeavesOneUnitOfAnOddLotWithTheReason) {
+  LotFit fit;
+  fit.units = {unit_through("A", kLnR, kLnRHi), unit_through("B", kLnR + 0.001, kLnRHi),
+               unit_through("C", kLnR + 0.015, kLnRHi)};
+  const Pairing p = photolot::pair_units(fit, PairOptions{});
+  ASSERT_EQ(p.pairs.size(), 1u);
+  EXPECT_EQ(p.pairs[0].a_id, "A");
+  EXPECT_EQ(p.pairs[0].b_id, "B");
+  ASSERT_EQ(p.unpaired.size(), 1u);
+  EXPECT_EQ(p.unpaired[0].id, "C");
+  EXPECT_EQ(p.unpaired[0].nearest_id, "B");
+  EXPECT_NE(p.unpaired[0].reason.find("paired with A"), std::string::npos) << p.unpaired[0].reason;
+}
+
+TEST(Pairing, PairsAllIdenticalUnitsWithZeroError) {
+  LotFit fit;
+  for (int i = 0; i < 11; ++i)
+    fit.units.push_back(unit_through("S" + std::to_string(i), kLnR, kLnRHi));
+  for (double tol : {0.0, 2.0}) {
+    PairOptions o;
+    o.tolerance_pct = tol;
+    const Pairing p = photolot::pair_units(fit, o);
+    EXPECT_EQ(p.pairs.size(), 5u);
+    EXPECT_EQ(p.unpaired.size(), 1u);
+    EXPECT_EQ(p.total_error_pct, 0.0);
+    EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+  }
+}
+
+TEST(Pairing, ZeroToleranceAcceptsOnlyIdenticalCurves) {
+  LotFit fit;
+  fit.units = {unit_through("A", kLnR, kLnRHi), unit_through("B", kLnR + 1e-6, kLnRHi),
+               unit_through("C", kLnR, kLnRHi)};
+  PairOptions o;
+  o.tolerance_pct = 0;
+  const Pairing p = photolot::pair_units(fit, o);
+  ASSERT_EQ(p.pairs.size(), 1u);
+  EXPECT_EQ(p.pairs[0].a_id, "A");
+  EXPECT_EQ(p.pairs[0].b_id, "C");
+  EXPECT_EQ(p.unpaired[0].id, "B");
+}
+
+TEST(Pairing, TrimmableErrorIgnoresAConstantRatioThatAbsoluteErrorCounts) {
+  // R_b = 1.1 R_a at every illuminance: the ratio is constant, so nothing drifts (trimmable
+  // error 0) while the resistances differ by 10 % (absolute error 10 %).
+  const auto a = photolot::make_power_law(20e3, 0.7);
+  const auto b = photolot::make_power_law(22e3, 0.7);
+  PairOptions abs_o, trim_o;
+  trim_o.mode = TrackingMode::trimmable;
+  EXPECT_NEAR(photolot::tracking_error(b, a, abs_o).error_pct, 10.0, 1e-9);
+  EXPECT_NEAR(photolot::tracking_error(b, a, trim_o).error_pct, 0.0, 1e-9);
+  LotFit fit;
+  fit.units = {unit_from("A", a), unit_from("B", b)};
+  EXPECT_TRUE(photolot::pair_units(fit, abs_o).pairs.empty());
+  ASSERT_EQ(photolot::pair_units(fit, trim_o).pairs.size(), 1u);
+}
+
+TEST(Pairing, ListsEligibleUnitsWithoutAFitAndSkipsUnitsNotChosen) {
+  LotFit fit;
+  fit.units = {unit_through("A", kLnR, kLnRHi), unit_through("B", kLnR, kLnRHi),
+               unit_through("C", kLnR, kLnRHi), unit_through("D", kLnR, kLnRHi)};
+  fit.units[1].status = photolot::FitStatus::too_few_levels;
+  const Pairing p = photolot::pair_units(fit, {0, 1, 2}, PairOptions{});
+  EXPECT_EQ(p.counts.eligible, 3u);
+  EXPECT_EQ(p.counts.fitted, 2u);
+  ASSERT_EQ(p.pairs.size(), 1u);
+  EXPECT_EQ(p.pairs[0].a_id, "A");
+  EXPECT_EQ(p.pairs[0].b_id, "C");
+  ASSERT_EQ(p.unpaired.size(), 1u);
+  EXPECT_EQ(p.unpaired[0].id, "B");
+  EXPECT_NE(p.unpaired[0].reason.find("too_few_levels"), std::string::npos);
+}
+
+TEST(TrackingError, SigmaAgreesWithMonteCarloOfTheFitCovariance) {
+  // Reference: the spread of the error when both curves' parameters are drawn from their
+  // covariances (simulation of the definition); delta method at the arg-max, valid when the
+  // arg-max does not switch ends, which holds for this clearly one-sided pair.
+  const std::array<double, 4> cov_a = {4e-6, -1e-6, -1e-6, 1e-6};
+  const std::array<double, 4> cov_b = {9e-6, 0, 0, 2.25e-6};
+  const auto a = photolot::make_power_law(20e3, 0.75, cov_a);
+  const auto b = photolot::make_power_law(20.2e3, 0.74, cov_b);
+  for (TrackingMode mode : {TrackingMode::absolute, TrackingMode::trimmable}) {
+    PairOptions o;
+    o.mode = mode;
+    const auto te = photolot::tracking_error(a, b, o);
+    std::mt19937_64 rng(99);
+    std::normal_distribution<double> z;
+    auto draw = [&](const photolot::Curve& c, const std::array<double, 4>& cov) {
+      // Cholesky of a 2 x 2 covariance.
+      const double l11 = std::sqrt(cov[0]), l21 = cov[2] / l11, l22 = std::sqrt(cov[3] - l21 * l21);
+      const double z1 = z(rng), z2 = z(rng);
+      return photolot::make_power_law(std::exp(c.params[0] + l11 * z1),
+                                      c.params[1] + l21 * z1 + l22 * z2);
+    };
+    double sum = 0, sum2 = 0;
+    const int m = 20000;
+    for (int k = 0; k < m; ++k) {
+      const double e = photolot::tracking_error(draw(a, cov_a), draw(b, cov_b), o).error_pct;
+      sum += e;
+      sum2 += e * e;
+    }
+    const double sd = std::sqrt(sum2 / m - (sum / m) * (sum / m));
+    EXPECT_NEAR(te.sigma_pct, sd, 0.05 * sd) << to_string(mode);
+  }
+}
+
+TEST(PairOptions, ValidateNamesTheFieldTheValueAndTheRule) {
+  PairOptions o;
+  EXPECT_EQ(o.validate(), "");
+  o.lux_hi = 0.5;
+  EXPECT_NE(o.validate().find("lux_hi = 0.5"), std::string::npos) << o.validate();
+  o = {};
+  o.tolerance_pct = -1;
+  EXPECT_NE(o.validate().find("tolerance_pct = -1"), std::string::npos);
+  o = {};
+  o.candidate_cap_per_unit = -3;
+  EXPECT_NE(o.validate().find("candidate_cap_per_unit = -3"), std::string::npos);
+  EXPECT_EQ(photolot::parse_tracking_mode("trimmable"), TrackingMode::trimmable);
+  EXPECT_FALSE(photolot::parse_tracking_mode("ratio").has_value());
+}
+
+TEST(Pairing, StopsWhenAskedAndSaysSo) {
+  std::mt19937_64 rng(1);
+  const LotFit fit = random_plane_lot(rng, 200, 0.05);
+  std::stop_source source;
+  source.request_stop();
+  const Pairing p = photolot::pair_units(fit, PairOptions{}, {}, source.get_token());
+  EXPECT_TRUE(p.cancelled);
+  EXPECT_TRUE(p.pairs.empty());
+  EXPECT_EQ(p.proof, ProofStatus::not_proved);
+}
