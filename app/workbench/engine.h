@@ -1,5 +1,4 @@
-// The workbench's door to the library steps. Steps that have not landed in this build yet
-// answer with a plain "not available yet" instead of numbers, so the window can say so.
+// The workbench's door to the import and fit steps, over the bytes it holds for each log.
 #pragma once
 
 #include <stop_token>
@@ -26,12 +25,6 @@ struct SourceFile {
 // Reads a file and hashes it. On failure the returned message names the path and the cause.
 std::pair<SourceFile, std::string> read_source_file(const std::string& path);
 std::string sha256_hex(const std::string& bytes);
-
-bool import_available();
-bool fit_available();
-bool synth_available();
-
-inline constexpr const char* kNotAvailableYet = "not available in this build yet";
 
 ImportResult run_import(const std::vector<SourceFile>& sources, const ImportOptions& options);
 FileLayout run_detect(const SourceFile& source, const ImportOptions& options,

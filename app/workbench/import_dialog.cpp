@@ -250,11 +250,7 @@ void ImportDialog::refresh() {
     updating_ = false;
   }
 
-  if (!import_available()) {
-    detected_->setText(tr("Reading bench logs is %1: the preview and import appear once the "
-                          "importer is part of this build.")
-                           .arg(QString::fromUtf8(kNotAvailableYet)));
-  } else {
+  {
     QStringList cols;
     for (const auto& c : layout_.columns) {
       if (c.role == ColumnRole::ignored) continue;
@@ -293,7 +289,6 @@ void ImportDialog::refresh() {
 }
 
 void ImportDialog::startTrial() {
-  if (!import_available()) return;
   if (watcher_.isRunning()) {
     trial_pending_ = true;  // the newest choices are tried when this one ends
     return;

@@ -21,6 +21,7 @@
 #include <QMimeData>
 #include <QProgressBar>
 #include <QPushButton>
+#include <QSaveFile>
 #include <QSettings>
 #include <QSplitter>
 #include <QStatusBar>
@@ -31,12 +32,16 @@
 #include <QTreeWidget>
 #include <QVBoxLayout>
 
+#include <cmath>
 #include <unordered_map>
 
 #include "curves_view.h"
 #include "help_text.h"
 #include "import_dialog.h"
-#include "placeholder_views.h"
+#include "acceptance_view.h"
+#include "pairs_view.h"
+#include "photolot/results.h"
+#include "spec_toml.h"
 #include "spread_view.h"
 #include "unit_table_model.h"
 
@@ -78,6 +83,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   connect(&session_, &AnalysisSession::progress, this, &MainWindow::onProgress);
   connect(&session_, &AnalysisSession::importFinished, this, &MainWindow::onImportFinished);
   connect(&session_, &AnalysisSession::fitFinished, this, &MainWindow::onFitFinished);
+  connect(&session_, &AnalysisSession::analysisFinished, this, &MainWindow::onAnalysisFinished);
+  connect(&session_, &AnalysisSession::pairingFinished, this, &MainWindow::onPairingFinished);
   connect(&session_, &AnalysisSession::cancelled, this, [this] {
     status_text_->setText(tr("Stopped. The results shown are from the last finished run; "
                              "Analysis ▸ Refit runs it again."));
@@ -173,6 +180,30 @@ void MainWindow::buildLayout() {
     selectUnits(units);
   });
   connect(acceptance_, &AcceptanceView::summaryRequested, this, &MainWindow::printSummary);
+  connect(acceptance_, &AcceptanceView::openSpecRequested, this, &MainWindow::openSpec);
+  connect(acceptance_, &AcceptanceView::saveSpecRequested, this, &MainWindow::saveSpec);
+  connect(acceptance_, &AcceptanceView::specApplied, this, &MainWindow::applySpec);
+  connect(acceptance_, &AcceptanceView::unitActivated, this, [this](const QString& id) {
+    if (const Lot* lot = session_.lot()) {
+      for (std::size_t i = 0; i < lot->units.size(); ++i) {
+        if (lot->units[i].id == id.toStdString()) selectUnits({static_cast<int>(i)});
+      }
+    }
+  });
+  connect(pairs_, &PairsView::findRequested, this, [this](const PairOptions& options) {
+    if (const std::string problem = options.validate(); !problem.empty()) {
+      QMessageBox::warning(this, tr("Pairs"), QString::fromStdString(problem));
+      return;
+    }
+    session_.setPairOptions(options);
+    session_.setPairingWanted(true);
+    pairs_->setPairing(nullptr, true);
+    session_.run();
+  });
+  connect(pairs_, &PairsView::pairActivated, this, [this](std::size_t a, std::size_t b) {
+    selectUnits({static_cast<int>(a), static_cast<int>(b)});
+  });
+  connect(pairs_, &PairsView::exportRequested, this, &MainWindow::savePickList);
 
   splitter_ = new QSplitter(this);
   splitter_->setObjectName(QStringLiteral("mainSplitter"));
@@ -387,6 +418,34 @@ bool MainWindow::openWorkspace(const QString& path) {
   session_.setSources(std::move(sources));
   session_.setImportOptions(workspace.import_options);
   session_.setFitOptions(workspace.fit_options);
+  std::optional<Spec> spec;
+  spec_toml_.clear();
+  if (workspace.spec.is_object() && workspace.spec.contains("toml")) {
+    spec_toml_ = workspace.spec.value("toml", "");
+    SpecLoadResult loaded = parse_spec(spec_toml_, workspace.spec.value("file", "workspace spec"));
+    if (loaded.ok()) {
+      spec = loaded.spec;
+      spec->source_file = workspace.spec.value("file", "");
+    } else {
+      QMessageBox::warning(this, tr("Open workspace"),
+                           tr("The workspace's spec does not load: %1")
+                               .arg(QString::fromStdString(to_string(loaded.errors.front()))));
+    }
+  }
+  session_.setSpec(spec);
+  acceptance_->showSpec(spec);
+  // Saved results are taken over when the logs are unchanged: the lot is re-imported (fast, and
+  // the curves need the readings) but not fitted again.
+  if (changed.isEmpty() && workspace.results.is_object()) {
+    const auto read = results::from_json(results::Json::parse(workspace.results.dump()));
+    if (read.ok()) {
+      auto fit = std::make_shared<LotFit>();
+      fit->units = read.doc.units;
+      fit->method = read.doc.fit_method;
+      fit->temperature = read.doc.temperature;
+      session_.offerSavedFit(fit);
+    }
+  }
   pending_selection_ = workspace.view.selected_units;
   filter_text_->setText(QString::fromStdString(workspace.view.filter));
   for (int i = 0; i < tabs_->count(); ++i) {
@@ -416,6 +475,25 @@ Workspace MainWindow::currentWorkspace() const {
     w.view.selected_units = pending_selection_;
   }
   w.view.filter = filter_text_->text().toStdString();
+  if (session_.spec()) {
+    w.spec = {{"file", session_.spec()->source_file}, {"toml", spec_toml_}};
+  }
+  const auto imported = session_.importResult();
+  const auto fit = session_.lotFit();
+  if (imported && fit) {
+    results::ResultsDocument doc = results::make_document(imported->lot, *fit);
+    doc.with_residuals = true;  // the curves and residual plots come back without a refit
+    if (const auto analysis = session_.analysis()) {
+      doc.sections["statistics"] = results::Json::parse(lot_statistics_json(analysis->statistics).dump());
+      if (analysis->acceptance) {
+        doc.sections["acceptance"] = results::Json::parse(acceptance_json(*analysis->acceptance).dump());
+      }
+    }
+    if (const auto pairing = session_.pairing()) {
+      doc.sections["pairing"] = results::Json::parse(pairing_json(*pairing).dump());
+    }
+    w.results = nlohmann::json::parse(results::to_json_text(doc));
+  }
   w.view.tab = tab_key(tabs_->currentIndex()).toStdString();
   return w;
 }
@@ -685,6 +763,8 @@ void MainWindow::onFitFinished() {
                 table_->horizontalHeader()->sortIndicatorOrder());
   curves_->setLot(lot.get(), fit.get());
   spread_->setFit(fit.get());
+  pairs_->setFit(fit);
+  pairs_->setPairing(nullptr, session_.pairingWanted());
   acceptance_->setLotLoaded(fit != nullptr);
   // Select again what was selected (by unit id), or the first unit of a new lot.
   std::unordered_map<std::string, int> by_id;
@@ -704,6 +784,115 @@ void MainWindow::onFitFinished() {
                               .arg(QString::fromStdString(fit->method)));
   }
   updateCountLabel();
+}
+
+void MainWindow::onAnalysisFinished() {
+  const auto analysis = session_.analysis();
+  const Lot* lot = session_.lot();
+  const bool spec_loaded = session_.spec().has_value();
+  acceptance_->setAnalysis(analysis, lot ? lot->units.size() : 0, spec_loaded);
+  std::vector<UnitVerdictText> verdicts;
+  if (analysis && analysis->verdicts) {
+    for (const auto& v : *analysis->verdicts) {
+      UnitVerdictText t;
+      t.kind = v.verdict == Verdict::conforming ? UnitVerdictKind::conforming
+                                                : UnitVerdictKind::nonconforming;
+      QStringList reasons;
+      for (const auto& r : v.reasons) reasons << QString::fromStdString(r.text);
+      t.text = v.verdict == Verdict::conforming ? tr("pass")
+                                                : tr("fail: %1").arg(reasons.join(QStringLiteral("; ")));
+      verdicts.push_back(std::move(t));
+    }
+  }
+  model_->setVerdicts(std::move(verdicts));
+  verdict_filter_->setEnabled(model_->verdictsAvailable());
+  std::optional<std::pair<double, double>> r10, gamma, r10_ti, gamma_ti;
+  if (const auto& spec = session_.spec()) {
+    if (spec->r10_ohm.has_min() && spec->r10_ohm.has_max()) r10 = {{spec->r10_ohm.min, spec->r10_ohm.max}};
+    if (spec->gamma.has_min() && spec->gamma.has_max()) gamma = {{spec->gamma.min, spec->gamma.max}};
+  }
+  if (analysis) {
+    const auto& st = analysis->statistics;
+    if (std::isfinite(st.ln_r10.tolerance_interval[0])) {
+      r10_ti = {{std::exp(st.ln_r10.tolerance_interval[0]), std::exp(st.ln_r10.tolerance_interval[1])}};
+    }
+    if (std::isfinite(st.gamma.tolerance_interval[0])) {
+      gamma_ti = {{st.gamma.tolerance_interval[0], st.gamma.tolerance_interval[1]}};
+    }
+  }
+  curves_->setSpecWindow(r10);
+  spread_->setR10Limits(r10);
+  spread_->setGammaLimits(gamma);
+  spread_->setToleranceIntervals(r10_ti, gamma_ti);
+}
+
+void MainWindow::onPairingFinished() { pairs_->setPairing(session_.pairing(), false); }
+
+void MainWindow::openSpec() {
+  const QString path = QFileDialog::getOpenFileName(
+      this, tr("Open spec"), QSettings().value("folders/spec").toString(),
+      tr("photolot spec (*.toml);;All files (*)"));
+  if (path.isEmpty()) return;
+  QFile file(path);
+  if (!file.open(QIODevice::ReadOnly)) {
+    QMessageBox::critical(this, tr("Open spec"), tr("cannot read '%1': %2").arg(path, file.errorString()));
+    return;
+  }
+  const std::string text = file.readAll().toStdString();
+  SpecLoadResult loaded = parse_spec(text, path.toStdString());
+  if (!loaded.ok()) {
+    QStringList lines;
+    for (const auto& e : loaded.errors) lines << QString::fromStdString(to_string(e));
+    QMessageBox::critical(this, tr("Open spec"), lines.join(QLatin1Char('\n')));
+    return;
+  }
+  QSettings().setValue("folders/spec", QFileInfo(path).absolutePath());
+  loaded.spec->source_file = path.toStdString();
+  acceptance_->showSpec(loaded.spec);
+  applySpec(loaded.spec);
+  spec_toml_ = text;
+}
+
+void MainWindow::saveSpec() {
+  QString problem;
+  const auto spec = acceptance_->specFromForm(&problem);
+  if (!spec) {
+    QMessageBox::warning(this, tr("Save spec"), problem);
+    return;
+  }
+  QString path = QFileDialog::getSaveFileName(this, tr("Save spec"),
+                                              QSettings().value("folders/spec").toString(),
+                                              tr("photolot spec (*.toml)"));
+  if (path.isEmpty()) return;
+  if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".toml");
+  const std::string text = spec_to_toml(*spec);
+  QSaveFile file(path);
+  if (!file.open(QIODevice::WriteOnly) || file.write(text.data(), qint64(text.size())) < 0 ||
+      !file.commit()) {
+    QMessageBox::critical(this, tr("Save spec"), tr("cannot write '%1': %2").arg(path, file.errorString()));
+    return;
+  }
+  QSettings().setValue("folders/spec", QFileInfo(path).absolutePath());
+  status_text_->setText(tr("Saved spec %1").arg(QFileInfo(path).fileName()));
+}
+
+void MainWindow::applySpec(std::optional<Spec> spec) {
+  spec_toml_ = spec ? spec_to_toml(*spec) : std::string();
+  session_.setSpec(std::move(spec));
+  session_.run();
+}
+
+void MainWindow::savePickList() {
+  const auto pairing = session_.pairing();
+  if (!pairing) return;
+  QString path = QFileDialog::getSaveFileName(this, tr("Save pick list"),
+                                              QSettings().value("folders/export").toString(),
+                                              tr("CSV (*.csv)"));
+  if (path.isEmpty()) return;
+  if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".csv");
+  if (const std::string error = write_pick_list_csv(*pairing, path.toStdString()); !error.empty()) {
+    QMessageBox::critical(this, tr("Save pick list"), QString::fromStdString(error));
+  }
 }
 
 void MainWindow::selectUnits(const std::vector<int>& units) {

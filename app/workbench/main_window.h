@@ -92,6 +92,12 @@ class MainWindow : public QMainWindow {
   void onProgress(AnalysisSession::Step step, qint64 done, qint64 total);
   void onImportFinished();
   void onFitFinished();
+  void onAnalysisFinished();
+  void onPairingFinished();
+  void openSpec();
+  void saveSpec();
+  void applySpec(std::optional<Spec> spec);
+  void savePickList();
   void onSelectionChanged();
   void updateCountLabel();
   void updateTitle();
@@ -131,6 +137,7 @@ class MainWindow : public QMainWindow {
 
   QTimer selection_timer_;
   QString workspace_path_;
+  std::string spec_toml_;  // the applied spec as written to a workspace
   std::vector<std::string> pending_selection_;  // unit ids to select when the fit arrives
   int prompt_answer_ = 0;
 };

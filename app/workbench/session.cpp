@@ -3,6 +3,32 @@
 #include <QMetaObject>
 
 namespace photolot::workbench {
+namespace {
+
+bool same_units(const Lot& lot, const LotFit& fit) {
+  if (lot.units.size() != fit.units.size()) return false;
+  for (std::size_t i = 0; i < lot.units.size(); ++i) {
+    if (lot.units[i].id != fit.units[i].id) return false;
+  }
+  return true;
+}
+
+LotAnalysis analyse(const LotFit& fit, const std::optional<Spec>& spec) {
+  LotAnalysis a;
+  StatisticsOptions options;
+  if (spec) {
+    options.coverage = spec->tolerance_coverage;
+    options.confidence = spec->tolerance_confidence;
+  }
+  a.statistics = lot_statistics(fit, options, spec ? &*spec : nullptr);
+  if (spec) {
+    a.verdicts = judge(fit, *spec);
+    a.acceptance = decide(*spec, *a.verdicts);
+  }
+  return a;
+}
+
+}  // namespace
 
 AnalysisSession::AnalysisSession(QObject* parent) : QObject(parent) {
   poll_timer_.setInterval(50);
@@ -13,46 +39,77 @@ AnalysisSession::~AnalysisSession() { stopWorker(); }
 
 void AnalysisSession::setSources(std::vector<SourceFile> sources) {
   sources_ = std::move(sources);
-  import_stale_ = !sources_.empty();
-  fit_stale_ = import_stale_;
+  saved_fit_.reset();
+  import_stale_ = fit_stale_ = analysis_stale_ = pairing_stale_ = !sources_.empty();
   if (sources_.empty()) {
     import_result_.reset();
     lot_fit_.reset();
+    analysis_.reset();
+    pairing_.reset();
   }
   emit inputsChanged();
 }
 
 void AnalysisSession::setImportOptions(const ImportOptions& options) {
   import_options_ = options;
-  import_stale_ = !sources_.empty();
-  fit_stale_ = import_stale_;
+  import_stale_ = fit_stale_ = analysis_stale_ = pairing_stale_ = !sources_.empty();
   emit inputsChanged();
 }
 
 void AnalysisSession::setFitOptions(const fitting::FitOptions& options) {
   fit_options_ = options;
-  fit_stale_ = import_result_ != nullptr || import_stale_;
+  saved_fit_.reset();
+  fit_stale_ = analysis_stale_ = pairing_stale_ = import_result_ != nullptr || import_stale_;
   emit inputsChanged();
 }
+
+void AnalysisSession::setSpec(std::optional<Spec> spec) {
+  spec_ = std::move(spec);
+  analysis_stale_ = lot_fit_ != nullptr || fit_stale_;
+  emit inputsChanged();
+}
+
+void AnalysisSession::setPairOptions(const PairOptions& options) {
+  pair_options_ = options;
+  pairing_stale_ = pairing_wanted_;
+  emit inputsChanged();
+}
+
+void AnalysisSession::setPairingWanted(bool wanted) {
+  pairing_wanted_ = wanted;
+  pairing_stale_ = wanted;
+  if (!wanted) pairing_.reset();
+}
+
+void AnalysisSession::offerSavedFit(std::shared_ptr<const LotFit> fit) { saved_fit_ = std::move(fit); }
 
 void AnalysisSession::clear() {
   stopWorker();
   setStep(Step::idle);
   sources_.clear();
+  saved_fit_.reset();
+  spec_.reset();
   import_result_.reset();
   lot_fit_.reset();
-  import_stale_ = fit_stale_ = false;
+  analysis_.reset();
+  pairing_.reset();
+  pairing_wanted_ = false;
+  import_stale_ = fit_stale_ = analysis_stale_ = pairing_stale_ = false;
   emit inputsChanged();
   emit importFinished();
   emit fitFinished();
+  emit analysisFinished();
+  emit pairingFinished();
 }
 
 void AnalysisSession::run() {
   stopWorker();
-  if (!import_stale_ && !fit_stale_) {
+  const bool pairing_due = pairing_wanted_ && pairing_stale_;
+  if (!import_stale_ && !fit_stale_ && !analysis_stale_ && !pairing_due) {
     setStep(Step::idle);
     return;
   }
+  if (sources_.empty()) return;
   startWorker();
 }
 
@@ -90,74 +147,130 @@ void AnalysisSession::startWorker() {
   const unsigned generation = ++generation_;
   shared_ = std::make_shared<Shared>();
   auto shared = shared_;
-  const bool do_import = import_stale_;
-  const Step first = do_import ? Step::import : Step::fit;
+
+  // The worker owns copies of its inputs, so the GUI may change them while it runs.
+  struct Job {
+    bool import, fit, analysis, pairing;
+    std::vector<SourceFile> sources;
+    ImportOptions import_options;
+    fitting::FitOptions fit_options;
+    std::optional<Spec> spec;
+    PairOptions pair_options;
+    std::shared_ptr<const ImportResult> imported;
+    std::shared_ptr<const LotFit> fit_result;
+    std::shared_ptr<const LotFit> saved_fit;
+  };
+  Job job{import_stale_,
+          fit_stale_ || import_stale_,
+          analysis_stale_ || fit_stale_ || import_stale_,
+          pairing_wanted_ && (pairing_stale_ || fit_stale_ || import_stale_),
+          import_stale_ ? sources_ : std::vector<SourceFile>{},
+          import_options_,
+          fit_options_,
+          spec_,
+          pair_options_,
+          import_result_,
+          lot_fit_,
+          saved_fit_};
+  const Step first = job.import ? Step::import
+                     : job.fit  ? Step::fit
+                     : job.analysis ? Step::analysis
+                                    : Step::pairing;
   shared->step = static_cast<int>(first);
   setStep(first);
 
-  // The worker owns copies of its inputs, so the GUI may change them while it runs.
-  std::vector<SourceFile> sources = do_import ? sources_ : std::vector<SourceFile>{};
-  ImportOptions import_options = import_options_;
-  fitting::FitOptions fit_options = fit_options_;
-  std::shared_ptr<const ImportResult> previous_import = import_result_;
+  // Each result is posted to the GUI thread as soon as its step ends; a result from an older
+  // run (generation) is dropped there.
+  auto post = [this, generation](auto apply) {
+    QMetaObject::invokeMethod(
+        this,
+        [this, generation, apply = std::move(apply)]() mutable {
+          if (generation == generation_) apply();
+        },
+        Qt::QueuedConnection);
+  };
 
-  worker_ = std::jthread([this, generation, shared, do_import, sources = std::move(sources),
-                          import_options, fit_options,
-                          previous_import](std::stop_token stop) mutable {
-    auto ended = [this, generation, &stop] {
-      const bool stopped = stop.stop_requested();
-      QMetaObject::invokeMethod(
-          this, [this, generation, stopped] { onWorkerEnded(generation, stopped); },
-          Qt::QueuedConnection);
-    };
-    std::shared_ptr<const ImportResult> imported = previous_import;
-    if (do_import) {
-      shared->total = sources.size();
-      auto result = std::make_shared<ImportResult>(run_import(sources, import_options));
-      shared->done = sources.size();
-      imported = result;
-      if (stop.stop_requested()) return ended();
-      QMetaObject::invokeMethod(
-          this, [this, generation, result] { onImported(generation, result); },
-          Qt::QueuedConnection);
-    }
-    if (!imported) return ended();
-    shared->step = static_cast<int>(Step::fit);
-    shared->done = 0;
-    shared->total = imported->lot.units.size();
+  worker_ = std::jthread([this, shared, post, job = std::move(job)](std::stop_token stop) mutable {
     auto progress = [shared](std::size_t done, std::size_t total) {
       shared->done = done;
       shared->total = total;
     };
-    auto fit = std::make_shared<LotFit>(run_fit(imported->lot, fit_options, progress, stop));
-    if (!stop.stop_requested()) {
-      QMetaObject::invokeMethod(
-          this, [this, generation, fit] { onFitted(generation, fit); }, Qt::QueuedConnection);
-    }
-    ended();
+    auto begin = [shared](Step step, std::size_t total) {
+      shared->step = static_cast<int>(step);
+      shared->done = 0;
+      shared->total = total;
+    };
+    [&] {
+      if (job.import) {
+        begin(Step::import, job.sources.size());
+        auto result = std::make_shared<const ImportResult>(run_import(job.sources, job.import_options));
+        if (stop.stop_requested()) return;
+        job.imported = result;
+        post([this, result] {
+          import_result_ = result;
+          lot_fit_.reset();
+          analysis_.reset();
+          pairing_.reset();
+          import_stale_ = false;
+          ++import_runs_;
+          emit importFinished();
+        });
+      }
+      if (!job.imported) return;
+      if (job.fit) {
+        begin(Step::fit, job.imported->lot.units.size());
+        std::shared_ptr<const LotFit> fit;
+        bool fitted = false;
+        if (job.saved_fit && same_units(job.imported->lot, *job.saved_fit)) {
+          fit = job.saved_fit;
+        } else {
+          fit = std::make_shared<const LotFit>(
+              run_fit(job.imported->lot, job.fit_options, progress, stop));
+          fitted = true;
+        }
+        if (stop.stop_requested()) return;
+        job.fit_result = fit;
+        post([this, fit, fitted] {
+          lot_fit_ = fit;
+          analysis_.reset();  // until the analysis of this fit arrives
+          pairing_.reset();
+          saved_fit_.reset();
+          fit_stale_ = false;
+          if (fitted) ++fit_runs_;
+          emit fitFinished();
+        });
+      }
+      if (!job.fit_result) return;
+      if (job.analysis) {
+        begin(Step::analysis, 0);
+        auto analysis = std::make_shared<const LotAnalysis>(analyse(*job.fit_result, job.spec));
+        if (stop.stop_requested()) return;
+        post([this, analysis] {
+          analysis_ = analysis;
+          analysis_stale_ = false;
+          ++analysis_runs_;
+          emit analysisFinished();
+        });
+      }
+      if (job.pairing) {
+        begin(Step::pairing, job.fit_result->units.size());
+        auto pairing = std::make_shared<const Pairing>(
+            pair_units(*job.fit_result, job.pair_options, progress, stop));
+        if (stop.stop_requested() || pairing->cancelled) return;
+        post([this, pairing] {
+          pairing_ = pairing;
+          pairing_stale_ = false;
+          ++pairing_runs_;
+          emit pairingFinished();
+        });
+      }
+    }();
+    post([this] { onWorkerEnded(generation_); });
   });
   poll_timer_.start();
 }
 
-void AnalysisSession::onImported(unsigned generation, std::shared_ptr<const ImportResult> result) {
-  if (generation != generation_) return;
-  import_result_ = std::move(result);
-  lot_fit_.reset();
-  import_stale_ = false;
-  ++import_runs_;
-  emit importFinished();
-}
-
-void AnalysisSession::onFitted(unsigned generation, std::shared_ptr<const LotFit> fit) {
-  if (generation != generation_) return;
-  lot_fit_ = std::move(fit);
-  fit_stale_ = false;
-  ++fit_runs_;
-  emit fitFinished();
-}
-
-void AnalysisSession::onWorkerEnded(unsigned generation, bool stopped) {
-  if (generation != generation_) return;
+void AnalysisSession::onWorkerEnded(unsigned) {
   poll_timer_.stop();
   if (worker_.joinable()) worker_.join();
   pollProgress();
