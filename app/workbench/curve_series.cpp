@@ -54,10 +54,12 @@ std::vector<UnitSeries> build_curve_series(const Lot& lot, const LotFit* fit,
       const Reading& r = unit.readings[i];
       if (!(r.lux > 0)) continue;  // dark readings have no place on a log axis
       if (r.kind == ReadingKind::censored) {
+        // A lower bound only: drawn, but the fitted line spans the readings the fit used.
         if (std::isfinite(r.ohm) && r.ohm > 0) {
           s.censored_lux.push_back(r.lux);
           s.censored_ohm.push_back(r.ohm);
         }
+        continue;
       } else if (std::isfinite(r.ohm) && r.ohm > 0) {
         (is_outlier[i] ? s.outlier_lux : s.normal_lux).push_back(r.lux);
         (is_outlier[i] ? s.outlier_ohm : s.normal_ohm).push_back(r.ohm);

@@ -79,10 +79,13 @@ CurvesView::CurvesView(QWidget* parent) : QWidget(parent) {
           qOverload<const QCPRange&>(&QCPAxis::rangeChanged), curve_rect_->axis(QCPAxis::atBottom),
           qOverload<const QCPRange&>(&QCPAxis::setRange));
 
+  // Clearing the layout took the default legend with it: the curves get a legend of their own.
+  plot_->legend = new QCPLegend;
+  curve_rect_->insetLayout()->addElement(plot_->legend, Qt::AlignTop | Qt::AlignRight);
+  plot_->legend->setLayer(QStringLiteral("legend"));
   plot_->legend->setVisible(true);
   plot_->legend->setFont(QFont(font().family(), 8));
   plot_->legend->setBrush(QColor(255, 255, 255, 220));
-  curve_rect_->insetLayout()->addElement(plot_->legend, Qt::AlignTop | Qt::AlignRight);
   plot_->setInteractions(QCP::iRangeDrag | QCP::iRangeZoom);
   plot_->setMouseTracking(true);
   plot_->installEventFilter(this);

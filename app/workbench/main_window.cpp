@@ -50,6 +50,9 @@
 #define PHOTOLOT_WORKBENCH_REPORT 1
 #endif
 
+// The icon lives in the library's resources; a static library must register them itself.
+static void init_workbench_resources() { Q_INIT_RESOURCE(workbench); }
+
 namespace photolot::workbench {
 namespace {
 
@@ -64,6 +67,7 @@ QString tab_key(int index) {
 }  // namespace
 
 MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
+  init_workbench_resources();
   setObjectName(QStringLiteral("photolotMainWindow"));
   setWindowIcon(QIcon(QStringLiteral(":/photolot/icons/photolot.svg")));
   setAcceptDrops(true);

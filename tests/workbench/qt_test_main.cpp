@@ -8,6 +8,8 @@
 #include "workbench_fixtures.h"
 
 int main(int argc, char** argv) {
+  // Test discovery runs this program without ctest's environment: never ask for a display.
+  if (!qEnvironmentVariableIsSet("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
   QApplication app(argc, argv);
   QApplication::setOrganizationName(QStringLiteral("photolot-tests"));
   QApplication::setApplicationName(QStringLiteral("photolot-tests"));

@@ -49,6 +49,8 @@ struct Heartbeat {
 }  // namespace
 
 int main(int argc, char** argv) {
+  // Test discovery runs this program without ctest's environment: never ask for a display.
+  if (!qEnvironmentVariableIsSet("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
   QApplication app(argc, argv);
   QApplication::setOrganizationName(QStringLiteral("photolot-probe"));
   QSettings::setDefaultFormat(QSettings::IniFormat);

@@ -57,7 +57,8 @@ TEST(AnalysisSession, ASpecChangeRerunsTheJudgementButNotTheFit) {
   EXPECT_EQ(session.analysisRuns(), 2);
   ASSERT_TRUE(session.analysis()->acceptance.has_value());
   EXPECT_EQ(session.analysis()->acceptance->nonconforming, 12u);
-  EXPECT_EQ(session.analysis()->acceptance->disposition, Disposition::reject);
+  // 100 % inspection sorts the lot: every nonconforming unit is rejected on its own.
+  EXPECT_EQ(session.analysis()->acceptance->rejected_units.size(), 12u);
 }
 
 TEST(AnalysisSession, AnImportChoiceRerunsImportAndFit) {
