@@ -836,11 +836,14 @@ void MainWindow::openSpec() {
   const QString path = QFileDialog::getOpenFileName(
       this, tr("Open spec"), QSettings().value("folders/spec").toString(),
       tr("photolot spec (*.toml);;All files (*)"));
-  if (path.isEmpty()) return;
+  if (!path.isEmpty()) openSpecFile(path);
+}
+
+bool MainWindow::openSpecFile(const QString& path) {
   QFile file(path);
   if (!file.open(QIODevice::ReadOnly)) {
     QMessageBox::critical(this, tr("Open spec"), tr("cannot read '%1': %2").arg(path, file.errorString()));
-    return;
+    return false;
   }
   const std::string text = file.readAll().toStdString();
   SpecLoadResult loaded = parse_spec(text, path.toStdString());
@@ -848,14 +851,17 @@ void MainWindow::openSpec() {
     QStringList lines;
     for (const auto& e : loaded.errors) lines << QString::fromStdString(to_string(e));
     QMessageBox::critical(this, tr("Open spec"), lines.join(QLatin1Char('\n')));
-    return;
+    return false;
   }
   QSettings().setValue("folders/spec", QFileInfo(path).absolutePath());
-  loaded.spec->source_file = path.toStdString();
+  loaded.spec->source_file = QFileInfo(path).fileName().toStdString();
   acceptance_->showSpec(loaded.spec);
   applySpec(loaded.spec);
   spec_toml_ = text;
+  return true;
 }
+
+void MainWindow::findPairs() { emit pairs_->findRequested(pairs_->options()); }
 
 void MainWindow::saveSpec() {
   QString problem;

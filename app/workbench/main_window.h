@@ -44,6 +44,10 @@ class MainWindow : public QMainWindow {
   // Opens logs, showing the import dialog first when ask is true.
   void openLogs(const QStringList& paths, bool ask);
   bool openWorkspace(const QString& path);
+  // Loads and applies a spec file (TOML); false with a message box when it does not load.
+  bool openSpecFile(const QString& path);
+  // Starts pairing with the options shown in the pairs view.
+  void findPairs();
   bool saveWorkspaceTo(const QString& path);
   // Re-imports the current sources with other choices (the import dialog's result).
   void setImportOptions(const ImportOptions& options);
