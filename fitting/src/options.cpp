@@ -8,9 +8,12 @@ namespace photolot::fitting {
 
 std::string_view to_string(Loss loss) {
   switch (loss) {
-    case Loss::huber: return "huber";
-    case Loss::cauchy: return "cauchy";
-    case Loss::none: return "none";
+    case Loss::huber:
+      return "huber";
+    case Loss::cauchy:
+      return "cauchy";
+    case Loss::none:
+      return "none";
   }
   return "?";
 }

@@ -11,6 +11,7 @@
 #include <cmath>
 
 #include "photolot/fitting/fit.h"
+#include "photolot/fitting/models.h"
 #include "unit_points.h"
 
 namespace photolot::fitting {
@@ -18,10 +19,50 @@ namespace {
 
 constexpr int kParameters = 2;  // ln R10, gamma
 constexpr int kMaxIterations = 100;
+constexpr std::size_t kTheilSenMaxPoints = 60;  // pairwise slopes: n (n - 1) / 2 of them
+// The loss's corner is at least this many observed standard deviations of the unit's scatter.
+constexpr double kScatterCorner = 3.0;
 
-// The loss scale in ln R: a reading within the meter's accuracy is a residual of at most one
-// scale unit.
-double loss_scale(const FitOptions& o) { return std::log1p(o.meter_accuracy_pct / 100.0); }
+// The meter's loss scale in ln R: a reading within the meter's accuracy is a residual of at
+// most one scale unit.
+double meter_scale(const FitOptions& o) { return std::log1p(o.meter_accuracy_pct / 100.0); }
+
+// The unit's observed scatter in ln R, robustly: 1.4826 x the median absolute residual (the
+// normal-consistent MAD about the fitted line), times sqrt(n / (n - p)) for the fitted
+// parameters. One decade slip among ten points leaves it almost unchanged.
+double median_in_place(std::vector<double>& v) {
+  const auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
+  std::nth_element(v.begin(), mid, v.end());
+  if (v.size() % 2 == 1) return *mid;
+  return 0.5 * (*mid + *std::max_element(v.begin(), mid));
+}
+
+// Theil-Sen line (median of pairwise slopes, then median intercept): unmoved by up to about
+// 29 % of wild points, so a decade slip cannot drag the robust fit's start or its scale.
+// Returns {ln R10, gamma}.
+std::array<double, 2> theil_sen(const detail::UnitPoints& pts) {
+  const std::size_t n = pts.size();
+  std::vector<double> v;
+  v.reserve(n * (n - 1) / 2);
+  for (std::size_t i = 0; i < n; ++i)
+    for (std::size_t j = i + 1; j < n; ++j) {
+      const double dx = pts.x[j] - pts.x[i];
+      if (std::abs(dx) > 1e-9) v.push_back((pts.y[j] - pts.y[i]) / dx);
+    }
+  const double slope = median_in_place(v);
+  v.resize(n);
+  for (std::size_t i = 0; i < n; ++i) v[i] = pts.y[i] - slope * pts.x[i];
+  return {median_in_place(v), -slope};
+}
+
+double observed_scatter(const detail::UnitPoints& pts, const std::array<double, 2>& params) {
+  const std::size_t n = pts.size();
+  std::vector<double> a(n);
+  for (std::size_t i = 0; i < n; ++i)
+    a[i] = std::abs(pts.y[i] - (params[0] - params[1] * pts.x[i]));
+  return 1.4826 * median_in_place(a) *
+         std::sqrt(static_cast<double>(n) / static_cast<double>(n - kParameters));
+}
 
 // Robust losses on a whitened residual r (ln R residual / scale), corner at 1, in Ceres's
 // convention cost = 1/2 rho(r^2):
@@ -139,8 +180,7 @@ double t_quantile(int dof, double confidence) {
 // Fills everything that follows from the parameters: residuals, weights, outliers, the
 // covariance, intervals, the curve and the message.
 void finish(UnitFit& f, const detail::UnitPoints& pts, std::array<double, 2> params, Loss loss,
-            const FitOptions& o, double sxx, double x_mean) {
-  const double scale = loss_scale(o);
+            const FitOptions& o, double scale, double scatter, double sxx, double x_mean) {
   const std::size_t n = pts.size();
   const double ln_r10 = params[0];
   const double gamma = params[1];
@@ -158,7 +198,7 @@ void finish(UnitFit& f, const detail::UnitPoints& pts, std::array<double, 2> par
     const double r = p.residual_ln / scale;
     const LossTerms t = loss_terms(loss, r);
     p.weight = t.weight;
-    p.outlier = std::abs(p.residual_ln) > o.outlier_threshold * scale && t.weight < 1.0;
+    p.outlier = std::abs(p.residual_ln) > o.outlier_threshold * scatter && t.weight < 1.0;
     cost += 0.5 * t.rho;
     sum_psi2 += t.psi * t.psi;
     sum_dpsi += t.dpsi;
@@ -187,12 +227,12 @@ void finish(UnitFit& f, const detail::UnitPoints& pts, std::array<double, 2> par
     double m = sum_dpsi / nn;
     double k = 1.0 + kParameters / nn * std::max(0.0, sum_dpsi2 / nn - m * m) / (m * m);
     if (inside < kParameters + 1 && loss != Loss::none) {
-      // Almost every point lies beyond the loss's corner: the scatter is larger than the
-      // meter's accuracy says, and psi' no longer measures the points' pull. Use the mean
-      // robust weight instead (approximate; flagged).
+      // Almost every point lies beyond the loss's corner (rare: the corner follows the
+      // observed scatter), so psi' no longer measures the points' pull. Use the mean robust
+      // weight instead (approximate; flagged).
       m = sum_weight / nn;
       k = 1.0;
-      f.flags.emplace_back("scatter-above-meter-accuracy");
+      f.flags.emplace_back("approximate-covariance");
     }
     const double factor = k * k * (sum_psi2 / (nn - kParameters)) / (m * m) * scale * scale;
     cov = {factor * (1.0 / nn + x_mean * x_mean / sxx), factor * x_mean / sxx,
@@ -215,12 +255,18 @@ void finish(UnitFit& f, const detail::UnitPoints& pts, std::array<double, 2> par
   if (f.outlier_points > 0) f.flags.emplace_back("outliers");
   if (f.dof < 3) f.flags.emplace_back("few-points");
 
-  f.message = fmt::format("fitted {} points over {:.1f} decades; rms {:.2f} %", n,
-                          pts.span_decades, 100.0 * std::expm1(f.rms_log_residual));
+  f.message = fmt::format("fitted {} points over {:.1f} decades; rms {:.2f} %", n, pts.span_decades,
+                          100.0 * std::expm1(f.rms_log_residual));
   if (f.outlier_points > 0)
     f.message += fmt::format("; {} outlier{}", f.outlier_points, f.outlier_points == 1 ? "" : "s");
   if (f.censored_points > 0) f.message += fmt::format("; {} over range", f.censored_points);
   if (f.dof == 0) f.message += "; no scatter left to estimate intervals";
+  const double meter = meter_scale(o);
+  if (loss != Loss::none && scatter > meter) {
+    f.flags.emplace_back("scatter-above-meter-accuracy");
+    f.message += fmt::format("; scatter {:.2f} % exceeds the meter's {:g} %",
+                             100.0 * std::expm1(scatter), o.meter_accuracy_pct);
+  }
 }
 
 // Runs TinySolver on the folded residuals from `start`; false when it did not converge.
@@ -228,8 +274,9 @@ bool solve(const detail::UnitPoints& pts, Loss loss, double scale, std::array<do
            int& iterations, std::string& why) {
   const PowerLawResiduals fn{&pts.x, &pts.y, 1.0 / scale, loss};
   ceres::TinySolver<PowerLawResiduals> solver;
-  // Whitened residuals make the absolute stopping tests meaningful: a cost change of 1e-12
-  // is far below one part in a thousand of a meter-accuracy residual.
+  // TinySolver's stopping tests are absolute; on residuals whitened by the corner a cost
+  // change of 1e-12 means parameter steps of about 1e-6 of the corner, far below any
+  // standard error.
   solver.options.max_num_iterations = kMaxIterations;
   solver.options.gradient_tolerance = 1e-12;
   solver.options.function_tolerance = 1e-12;
@@ -251,13 +298,7 @@ bool solve(const detail::UnitPoints& pts, Loss loss, double scale, std::array<do
 
 UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
   const std::string invalid = options.validate();
-  if (!invalid.empty()) {
-    UnitFit f;
-    f.id = unit.id;
-    f.status = FitStatus::solver_failed;
-    f.message = "not fitted: invalid fit options: " + invalid;
-    return f;
-  }
+  if (!invalid.empty()) return detail::invalid_options_fit(unit, invalid);
   const detail::UnitPoints pts = detail::collect_points(unit);
   UnitFit f = detail::start_unit_fit(unit, pts, options, kParameters);
   if (!f.ok()) return f;
@@ -265,27 +306,42 @@ UnitFit fit(const Unit& unit, const FitOptions& options, bool robust) {
   double sxx = 0, x_mean = 0;
   std::array<double, 2> params = closed_form(pts.x, pts.y, &sxx, &x_mean);
   const Loss loss = robust ? options.loss : Loss::none;
+  double scale = meter_scale(options);
+  double scatter = scale;
   if (loss != Loss::none && f.dof > 0) {
-    const double scale = loss_scale(options);
     std::string why;
-    // Cauchy's loss is not convex: start it from the (convex) Huber minimum so that a decade
-    // slip cannot trap it near the least-squares line.
-    bool ok = true;
-    if (loss == Loss::cauchy) ok = solve(pts, Loss::huber, scale, params, f.iterations, why);
-    if (ok) ok = solve(pts, loss, scale, params, f.iterations, why);
+    // Start from a line that outliers cannot move (Theil-Sen), and put the loss's corner at
+    // the larger of the meter's accuracy and 3 x the unit's observed scatter: a bench noisier
+    // than its meter (light-source ripple, creep) would otherwise put most points beyond the
+    // corner, flag good points as outliers, make the solver crawl and the intervals too
+    // narrow (measured by simulation: see docs/fitting.md).
+    std::array<double, 2> start = pts.size() <= kTheilSenMaxPoints ? theil_sen(pts) : params;
+    const double sigma = observed_scatter(pts, start);
+    scatter = std::max(scale, sigma);
+    scale = std::max(scale, kScatterCorner * sigma);
+    bool ok = solve(pts, Loss::huber, scale, start, f.iterations, why);
+    // Cauchy's loss is not convex: it starts from the Huber minimum so that a decade slip
+    // cannot trap it near the least-squares line.
+    if (ok && loss == Loss::cauchy) ok = solve(pts, loss, scale, start, f.iterations, why);
+    params = start;
     if (!ok) {
       f.status = FitStatus::solver_failed;
       f.message = "not fitted: " + why;
       return f;
     }
   }
-  finish(f, pts, params, loss, options, sxx, x_mean);
+  finish(f, pts, params, loss, options, scale, scatter, sxx, x_mean);
   return f;
 }
 
 }  // namespace
 
-UnitFit fit_unit(const Unit& unit, const FitOptions& options) { return fit(unit, options, true); }
+UnitFit fit_unit(const Unit& unit, const FitOptions& options) {
+  // Over-range readings as one-sided terms need the extended fit (models.h).
+  if (options.over_range_bounds && needs_extended_fit(unit))
+    return fit_unit_extended(unit, options, power_law_with_bounds());
+  return fit(unit, options, true);
+}
 
 UnitFit fit_unit_closed_form(const Unit& unit, const FitOptions& options) {
   return fit(unit, options, false);

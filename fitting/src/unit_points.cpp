@@ -75,17 +75,25 @@ UnitFit start_unit_fit(const Unit& unit, const UnitPoints& points, const FitOpti
         unit.readings.size(), points.censored, points.dark, points.skipped);
   } else if (points.levels < std::max(options.min_levels, parameters)) {
     f.status = FitStatus::too_few_levels;
-    f.message = fmt::format("not fitted: {} distinct illuminance level{}, {} needed",
-                            points.levels, points.levels == 1 ? "" : "s",
-                            std::max(options.min_levels, parameters));
+    f.message =
+        fmt::format("not fitted: {} distinct illuminance level{}, {} needed", points.levels,
+                    points.levels == 1 ? "" : "s", std::max(options.min_levels, parameters));
   } else if (points.span_decades < options.min_span_decades) {
     f.status = FitStatus::span_too_small;
-    f.message = fmt::format(
-        "not fitted: the levels span {:.2f} decades ({:g} to {:g} lx), {:g} needed",
-        points.span_decades, points.lux_min, points.lux_max, options.min_span_decades);
+    f.message =
+        fmt::format("not fitted: the levels span {:.2f} decades ({:g} to {:g} lx), {:g} needed",
+                    points.span_decades, points.lux_min, points.lux_max, options.min_span_decades);
   } else {
     f.status = FitStatus::fitted;
   }
+  return f;
+}
+
+UnitFit invalid_options_fit(const Unit& unit, const std::string& why) {
+  UnitFit f;
+  f.id = unit.id;
+  f.status = FitStatus::solver_failed;
+  f.message = "not fitted: invalid fit options: " + why;
   return f;
 }
 

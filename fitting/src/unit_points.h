@@ -21,12 +21,12 @@ struct UnitPoints {
   std::vector<double> x;  // ln(E / 10 lx)
   std::vector<double> y;  // ln R
 
-  int levels = 0;             // distinct illuminance levels among the points
+  int levels = 0;  // distinct illuminance levels among the points
   double lux_min = 0, lux_max = 0;
-  double span_decades = 0;    // log10(lux_max / lux_min)
-  int censored = 0;           // over-range readings under light (lux > 0)
-  int dark = 0;               // readings at 0 lx, censored or not
-  int skipped = 0;            // normal readings that could not be used (bad lux or ohm)
+  double span_decades = 0;  // log10(lux_max / lux_min)
+  int censored = 0;         // over-range readings under light (lux > 0)
+  int dark = 0;             // readings at 0 lx, censored or not
+  int skipped = 0;          // normal readings that could not be used (bad lux or ohm)
   std::vector<double> dark_ohm;
   std::vector<bool> dark_censored;
 
@@ -42,5 +42,8 @@ UnitPoints collect_points(const Unit& unit);
 // status and a plain-words message.
 UnitFit start_unit_fit(const Unit& unit, const UnitPoints& points, const FitOptions& options,
                        int parameters = 2);
+
+// A UnitFit for a unit not fitted because the options are invalid (`why` from validate()).
+UnitFit invalid_options_fit(const Unit& unit, const std::string& why);
 
 }  // namespace photolot::fitting::detail

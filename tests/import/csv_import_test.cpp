@@ -7,6 +7,7 @@
 #include <string>
 
 #include "photolot/import.h"
+#include "photolot/synth.h"
 #include "photolot/units.h"
 #include "test_support.h"
 
@@ -99,6 +100,33 @@ TEST(CsvImport, DocExample4SkipsTextInTheResistanceColumnWithItsPlace) {
   EXPECT_EQ(d->message, "resistance 'abc' is not a number or an over-range marker");
   EXPECT_EQ(r.lot.counts.rows_skipped, 1u);
   EXPECT_TRUE(r.lot.units.empty());
+}
+
+// The "fuller example" of docs/bench-log-format.md, as printed there.
+TEST(CsvImport, ReadsTheFullerExampleOfTheFormatGuide) {
+  const auto r = import_text(
+      "# Incoming inspection, bench 2 (an invented example)\n"
+      "# Cells light-adapted 1 h at 500 lx before the run\n"
+      "Serial;Illuminance [lx];Resistance [k\xCE\xA9];Temperature [\xC2\xB0"
+      "C]\n"
+      "X-0001;0;>20000;24,8\n"
+      "X-0001;1;92,4;24,9\n"
+      "X-0001;10;18,7;25,0\n"
+      "X-0001;100;3,81;25,1\n"
+      "X-0002;10;OL;25,0\n");
+  ASSERT_TRUE(r.ok());
+  ASSERT_EQ(r.lot.units.size(), 2u);
+  const auto& a = r.lot.units[0].readings;
+  ASSERT_EQ(a.size(), 4u);
+  EXPECT_EQ(a[0].kind, ReadingKind::dark);
+  EXPECT_NEAR(a[0].ohm, 20e6, 1e-6);
+  EXPECT_NEAR(a[2].ohm, 18700, 1e-9);
+  EXPECT_NEAR(a[3].temp_c, 25.1, 1e-12);
+  EXPECT_EQ(r.lot.units[1].readings.at(0).kind, ReadingKind::censored);
+  EXPECT_TRUE(std::isnan(r.lot.units[1].readings.at(0).ohm));
+  EXPECT_EQ(r.lot.counts.censored, 2u);
+  EXPECT_EQ(r.lot.counts.dark, 1u);
+  EXPECT_EQ(first_of(r.lot, Severity::error), nullptr);
 }
 
 // ---- dialects ----
@@ -430,6 +458,90 @@ TEST(CsvImport, IsDeterministic) {
     EXPECT_EQ(a.lot.diagnostics[i].message, b.lot.diagnostics[i].message);
 }
 
+// The generator's logs (photolot/synth.h) come back as the lot they were written from, to the
+// six significant digits the writer keeps ({:.6g}: half a unit in the sixth digit is a relative
+// 5e-6), in both dialects.
+TEST(CsvImport, RoundTripsASyntheticLotInBothDialects) {
+  synth::LotSpec spec;
+  spec.seed = 11;
+  spec.units = 25;
+  spec.dark_readings = true;
+  spec.meter_max_ohm = 2e6;  // some low-light and dark readings go over range
+  spec.temp_span_c = 3;
+  const auto sim = synth::simulate(spec);
+  for (const auto dialect : {synth::Dialect::comma, synth::Dialect::semicolon}) {
+    const auto r = import_text(synth::to_csv(sim.lot, dialect));
+    ASSERT_TRUE(r.ok());
+    EXPECT_EQ(first_of(r.lot, Severity::error), nullptr);
+    ASSERT_EQ(r.lot.units.size(), sim.lot.units.size());
+    std::size_t censored = 0;
+    for (std::size_t u = 0; u < sim.lot.units.size(); ++u) {
+      const auto& want = sim.lot.units[u];
+      const auto& got = r.lot.units[u];
+      EXPECT_EQ(got.id, want.id);
+      ASSERT_EQ(got.readings.size(), want.readings.size()) << want.id;
+      for (std::size_t i = 0; i < want.readings.size(); ++i) {
+        const Reading& a = want.readings[i];
+        const Reading& b = got.readings[i];
+        EXPECT_NEAR(b.lux, a.lux, 5e-6 * a.lux);
+        EXPECT_NEAR(b.ohm, a.ohm, 5e-6 * a.ohm);
+        EXPECT_NEAR(b.temp_c, a.temp_c, 0.005 + 1e-9);  // written with two decimals
+        // A 0 lx row is a dark reading even when over range (its bound kept).
+        EXPECT_EQ(b.kind, a.lux == 0 ? ReadingKind::dark : a.kind);
+        censored += a.kind == ReadingKind::censored;
+      }
+    }
+    EXPECT_GT(censored, 0u);
+    EXPECT_EQ(r.lot.counts.censored, censored);
+    EXPECT_EQ(r.lot.counts.dark, spec.units);
+  }
+}
+
+// Mutated logs (bytes replaced, inserted, cut, with a fixed seed) must never crash or lose
+// count of a row: every row read is used, skipped or dropped, and every skipped row has a place.
+TEST(CsvImport, KeepsItsCountsOnMutatedLogs) {
+  const std::string base =
+      "# invented\r\nunit;lux;R (k\xCE\xA9);temp\r\n\"A;1\";10;4,7;25\r\nA;100;0,9;25\r\n"
+      "B;0;>20M;24\r\nB;10;OL;24\r\nC;1;4k7;\r\n";
+  const char alphabet[] = {';', ',', '"', '\n', '\r', '#', '>', '0', '9', 'k', '\xCE', ' ', '\0'};
+  std::uint64_t state = 42;
+  auto next = [&] {  // 64-bit LCG (Knuth, TAOCP vol. 2, MMIX constants)
+    state = state * 6364136223846793005ULL + 1442695040888963407ULL;
+    return static_cast<std::size_t>(state >> 33);
+  };
+  for (int round = 0; round < 2000; ++round) {
+    std::string text = base;
+    for (int k = 0, edits = 1 + static_cast<int>(next() % 4); k < edits; ++k) {
+      const std::size_t at = next() % (text.size() + 1);
+      const char c = alphabet[next() % sizeof alphabet];
+      switch (next() % 3) {
+        case 0:
+          if (at < text.size()) text[at] = c;
+          break;
+        case 1:
+          text.insert(text.begin() + static_cast<std::ptrdiff_t>(at), c);
+          break;
+        default:
+          text.erase(at, next() % 4);
+          break;
+      }
+    }
+    const auto r = import_text(text);
+    expect_counts_add_up(r.lot.counts);
+    std::size_t errors = 0, readings = 0;
+    for (const auto& d : r.lot.diagnostics) {
+      if (d.severity != Severity::error) continue;
+      ++errors;
+      EXPECT_GT(d.line, 0u) << text;
+      EXPECT_GT(d.column, 0u) << text;
+    }
+    EXPECT_EQ(errors, r.lot.counts.rows_skipped) << text;
+    for (const auto& u : r.lot.units) readings += u.readings.size();
+    EXPECT_EQ(readings, r.lot.counts.rows_used) << text;
+    if (HasFailure()) break;
+  }
+}
+
 // ---- files that cannot be read at all ----
 
 TEST(CsvImport, ReportsAMissingFileAndStillReadsTheOthers) {
@@ -464,7 +576,7 @@ TEST(CsvImport, RejectsFilesThatCannotBeReadAtAll) {
       {"# only a comment\n\n", 0, 0, "no data"},
       {std::string("unit,lux,ohm\nA,1\0,2\n", 20), 2, 4, "binary"},
       {"\xFF\xFE u\0n\0", 1, 1, "UTF-16"},
-      {"PK\x03\x04xl/workbook", 1, 1, "ZIP"},
+      {"PK\x03\x04[Content_Types].xml", 1, 1, "ZIP"},
       // A Latin-1 degree sign (0xB0) where UTF-8 needs two bytes.
       {"unit,lux,ohm,Temp [\xB0"
        "C]\nA,10,1,25\n",
@@ -590,6 +702,9 @@ TEST(ImportOptions, ValidateNamesFieldValueAndRule) {
   o = {};
   o.lux_column = "0";
   EXPECT_EQ(o.validate(), "lux_column = '0' must be a column number from 1 or a header name");
+  o = {};
+  o.temp_column = " ";
+  EXPECT_EQ(o.validate(), "temp_column = ' ' must name a column: a header text or a number from 1");
   o = {};
   o.lux_column = "2";
   o.ohm_column = "2";

@@ -3,6 +3,7 @@
 
 #include <gtest/gtest.h>
 
+#include <charconv>
 #include <clocale>
 #include <cmath>
 
@@ -56,16 +57,16 @@ TEST(Units, DoesNotMistakeMilliohmSymbolForMegohm) {
 
 // IEC 60062, the resistance letter code: the multiplier letter stands for the decimal point.
 TEST(Units, ParsesIec60062LetterCodes) {
-  EXPECT_NEAR(*parse_resistance("R47"), 0.47, 1e-15);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4R7"), 4.7, 1e-15);     // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("470R"), 470, 1e-12);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4K7"), 4.7e3, 1e-9);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("47K3"), 47.3e3, 1e-9);  // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("4M7"), 4.7e6, 1e-6);    // IEC 60062 example
-  EXPECT_NEAR(*parse_resistance("1M0"), 1.0e6, 1e-6);    // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("R47"), 0.47);      // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4R7"), 4.7);       // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("470R"), 470);      // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4K7"), 4.7e3);     // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("47K3"), 47.3e3);   // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("4M7"), 4.7e6);     // IEC 60062 example
+  EXPECT_DOUBLE_EQ(*parse_resistance("1M0"), 1.0e6);     // IEC 60062 example
   EXPECT_NEAR(*parse_resistance("6L8"), 6.8e-3, 1e-15);  // IEC 60062 example (milliohm)
-  EXPECT_NEAR(*parse_resistance("15M0"), 15e6, 1e-6);    // trailing zero states precision
-  EXPECT_NEAR(*parse_resistance("K47"), 470, 1e-12);     // letter first: 0.47 kohm
+  EXPECT_DOUBLE_EQ(*parse_resistance("15M0"), 15e6);     // trailing zero states precision
+  EXPECT_DOUBLE_EQ(*parse_resistance("K47"), 470);       // letter first: 0.47 kohm
 }
 
 TEST(Units, AcceptsLowerCaseKAndATrailingToleranceLetter) {
@@ -99,6 +100,22 @@ TEST(Units, RejectsTextThatIsNotAValue) {
   EXPECT_FALSE(parse_number("12.5", ','));
   EXPECT_FALSE(parse_number("nan"));
   EXPECT_FALSE(parse_number("inf"));
+}
+
+// The standard library's std::from_chars is correctly rounded (C++17 [charconv.from.chars]);
+// our fast path must give the same double, bit for bit, including values past its range.
+TEST(Units, AgreesWithFromCharsToTheLastBit) {
+  for (std::string_view text : {"0.1", "4.35", "20500", "0.30000000000000004", "9007199254740993",
+                                "9007199254740992", "123456789012345678901", "1e23", "1e-23",
+                                "2.2250738585072014e-308", "1.7976931348623157e308", "0.000001234",
+                                "12345.678901234567", "0", "-0.5", "1e22", "3.0e-22"}) {
+    double expected = 0;
+    const std::string_view body = text[0] == '+' ? text.substr(1) : text;
+    std::from_chars(body.data(), body.data() + body.size(), expected);
+    const auto got = parse_number(text);
+    ASSERT_TRUE(got) << text;
+    EXPECT_EQ(*got, expected) << text;
+  }
 }
 
 TEST(Units, ParsesDecimalCommaWithoutTheCLocale) {

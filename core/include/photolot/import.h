@@ -23,7 +23,8 @@ std::string_view to_string(ColumnRole role);
 // Choices that override detection. Empty strings mean "detect".
 struct ImportOptions {
   char delimiter = 0;  // ',', ';', '\t', or 0 to detect
-  char decimal = 0;    // '.', ',', or 0: ',' when the delimiter is ';', else '.'
+  char decimal = 0;    // '.', ',', or 0: '.' unless the delimiter is ';', then ','
+                       // (or '.' when the first data rows only use '.')
   // A column by header name (case-insensitive) or by 1-based number ("3").
   std::string id_column, lux_column, ohm_column, temp_column;
   // A unit forcing the column's scale: "lx", "lux", "fc"; "ohm", "kohm", "Mohm"; "degC", "K".

@@ -38,6 +38,7 @@ std::optional<UnitInfo> find_unit(std::string_view symbol);
 std::optional<double> parse_resistance(std::string_view text, char decimal = '.');
 
 // A plain decimal number (optionally with an SI prefix when allow_prefix), locale-independent.
-std::optional<double> parse_number(std::string_view text, char decimal = '.', bool allow_prefix = false);
+std::optional<double> parse_number(std::string_view text, char decimal = '.',
+                                   bool allow_prefix = false);
 
 }  // namespace photolot

@@ -231,7 +231,8 @@ std::vector<DetectedColumn> resolve_columns(const std::vector<std::string>& head
     if (choice.option.empty()) continue;
     std::size_t index = static_cast<std::size_t>(-1);
     const std::string_view wanted = trim(choice.option);
-    const bool numeric = wanted.find_first_not_of("0123456789") == std::string_view::npos;
+    const bool numeric = !wanted.empty() && wanted.size() <= 6 &&
+                         wanted.find_first_not_of("0123456789") == std::string_view::npos;
     if (numeric) {
       const std::size_t number = std::stoul(std::string(wanted));
       if (number >= 1 && number <= cols.size()) index = number - 1;

@@ -44,8 +44,8 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
-#include <map>
 #include <numeric>
+#include <unordered_map>
 
 #include "../units/value_scan.h"
 #include "columns.h"
@@ -94,6 +94,9 @@ std::string ImportOptions::validate() const {
                                  {"ohm_column", ohm_column},
                                  {"temp_column", temp_column}};
   for (const auto& c : columns) {
+    if (!c.value.empty() && detail::trim(c.value).empty())
+      return fmt::format("{} = '{}' must name a column: a header text or a number from 1", c.name,
+                         c.value);
     if (!c.value.empty() && c.value.find_first_not_of("0123456789") == std::string::npos &&
         (c.value.size() > 6 || std::stoul(c.value) == 0))
       return fmt::format("{} = '{}' must be a column number from 1 or a header name", c.name,
@@ -362,6 +365,12 @@ struct ReadingExtra {
   bool over_range = false;
 };
 
+struct Pending {
+  Reading r;
+  ReadingExtra x;
+  std::uint32_t unit;
+};
+
 struct FileTally {
   std::size_t duplicates = 0;
   std::uint32_t first_duplicate_line = 0;
@@ -413,7 +422,7 @@ class Builder {
   }
 
   ImportResult finish(ImportResult result) {
-    deduplicate();
+    distribute();
     summarise();
     // Diagnostics in file order, then line, then column.
     std::vector<std::size_t> order(lot_.diagnostics.size());
@@ -441,17 +450,16 @@ class Builder {
 
   std::uint32_t unit_index(std::string_view id) {
     if (have_last_ && id == last_id_) return last_index_;
-    auto it = ids_.find(id);
+    last_id_.assign(id);
+    auto it = ids_.find(last_id_);
     std::uint32_t index;
     if (it == ids_.end()) {
       index = static_cast<std::uint32_t>(lot_.units.size());
       lot_.units.push_back(Unit{std::string(id), {}});
-      extras_.emplace_back();
-      ids_.emplace(std::string(id), index);
+      ids_.emplace(last_id_, index);
     } else {
       index = it->second;
     }
-    last_id_.assign(id);
     last_index_ = index;
     have_last_ = true;
     return index;
@@ -580,7 +588,9 @@ class Builder {
         reject(&ohm_field, 0, 0, "missing resistance");
         continue;
       }
-      if (ohm_text[0] == '>' || ohm_text.starts_with("\xE2\x89\xA5" /* ≥ */)) {
+      const char lead = ohm_text[0];
+      const bool digit_lead = (lead >= '0' && lead <= '9') || lead == '.';
+      if (!digit_lead && (lead == '>' || ohm_text.starts_with("\xE2\x89\xA5" /* ≥ */))) {
         const std::string_view bound_text =
             detail::trim(ohm_text.substr(ohm_text[0] == '>' ? 1 : 3));
         const auto bound = detail::scan_resistance(bound_text, decimal);
@@ -593,10 +603,10 @@ class Builder {
         }
         r.ohm = bound_ohm;
         extra.over_range = true;
-      } else if (is_overload_word(ohm_text)) {
+      } else if (!digit_lead && is_overload_word(ohm_text)) {
         r.ohm = options_.overload_ohm;
         extra.over_range = true;
-      } else if (ohm_text[0] == '<' || ohm_text.starts_with("\xE2\x89\xA4" /* ≤ */)) {
+      } else if (!digit_lead && (lead == '<' || ohm_text.starts_with("\xE2\x89\xA4" /* ≤ */))) {
         reject(&ohm_field, 0, 0,
                fmt::format("resistance '{}' is below the meter's range; not used", ohm_text));
         continue;
@@ -646,8 +656,7 @@ class Builder {
                : extra.over_range ? ReadingKind::censored
                                   : ReadingKind::normal;
       const std::uint32_t u = unit_index(id);
-      lot_.units[u].readings.push_back(r);
-      extras_[u].push_back(extra);
+      pending_.push_back(Pending{r, extra, u});
       ++counts.rows_used;
     }
     if (suppressed > 0)
@@ -687,100 +696,119 @@ class Builder {
 
   // Same unit, illuminance and temperature: a resistance equal within the rounding of either
   // value as written is a duplicate (the later row dropped); a different one is a conflict
-  // (both kept, a warning).
-  void deduplicate() {
+  // (both kept, a warning). Readings wait in one flat list until here, then move into their
+  // units with exact sizes.
+  void distribute() {
+    const std::size_t n_units = lot_.units.size();
+    std::vector<std::uint32_t> start(n_units + 1, 0);
+    for (const auto& p : pending_) ++start[p.unit + 1];
+    for (std::size_t u = 0; u < n_units; ++u) start[u + 1] += start[u];
+    std::vector<std::uint32_t> slots(pending_.size());
+    {
+      std::vector<std::uint32_t> fill(start.begin(), start.end() - 1);
+      for (std::uint32_t i = 0; i < pending_.size(); ++i) slots[fill[pending_[i].unit]++] = i;
+    }
+    std::vector<std::uint8_t> dropped(pending_.size(), 0);
     std::vector<std::uint32_t> order;
-    for (std::size_t u = 0; u < lot_.units.size(); ++u) {
-      auto& readings = lot_.units[u].readings;
-      auto& extras = extras_[u];
-      if (readings.size() < 2) continue;
-      order.resize(readings.size());
-      std::iota(order.begin(), order.end(), 0);
-      std::stable_sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) {
-        const Reading& x = readings[a];
-        const Reading& y = readings[b];
-        if (x.lux != y.lux) return x.lux < y.lux;
-        const bool xn = std::isnan(x.temp_c), yn = std::isnan(y.temp_c);
-        if (xn != yn) return yn;
-        return !xn && x.temp_c < y.temp_c;
-      });
-      std::vector<bool> dropped(readings.size(), false);
-      bool any = false;
-      for (std::size_t g = 0; g < order.size();) {
-        std::size_t end = g + 1;
-        while (end < order.size() && same_key(readings[order[g]], readings[order[end]])) ++end;
-        for (std::size_t j = g + 1; j < end; ++j) {
-          const std::uint32_t later = order[j];
-          std::uint32_t match = UINT32_MAX;
-          for (std::size_t i = g; i < j; ++i) {
-            const std::uint32_t earlier = order[i];
-            if (dropped[earlier]) continue;
-            if (same_value(readings[earlier], extras[earlier], readings[later], extras[later])) {
-              match = earlier;
-              break;
-            }
+    auto before = [&](std::uint32_t a, std::uint32_t b) {
+      const Reading& x = pending_[a].r;
+      const Reading& y = pending_[b].r;
+      if (x.lux != y.lux) return x.lux < y.lux;
+      const bool xn = std::isnan(x.temp_c), yn = std::isnan(y.temp_c);
+      if (xn != yn) return yn;
+      return !xn && x.temp_c < y.temp_c;
+    };
+    for (std::size_t u = 0; u < n_units; ++u) {
+      const std::uint32_t b = start[u], e = start[u + 1];
+      if (e - b >= 2) {
+        order.assign(slots.begin() + b, slots.begin() + e);  // file order
+        if (order.size() <= 32) {
+          for (std::size_t i = 1; i < order.size(); ++i) {  // insertion sort: stable, small
+            const std::uint32_t v = order[i];
+            std::size_t j = i;
+            for (; j > 0 && before(v, order[j - 1]); --j) order[j] = order[j - 1];
+            order[j] = v;
           }
-          const Reading& r = readings[later];
-          if (match != UINT32_MAX) {
-            dropped[later] = true;
-            any = true;
-            ++lot_.counts.duplicates_dropped;
-            --lot_.counts.rows_used;
-            FileTally& t = tallies_[r.source.file_index];
-            ++t.duplicates;
-            if (t.first_duplicate_line == 0 || r.source.line < t.first_duplicate_line) {
-              t.first_duplicate_line = r.source.line;
-              t.first_duplicate_of = where(readings[match].source);
-            }
-          } else {
-            const Reading& first = readings[order[g]];
-            ++lot_.counts.conflicts;
-            note(r.source.file_index, r.source.line, extras[later].column, Severity::warning,
-                 fmt::format(
-                     "unit {} at {:g} lx{}: resistance {} differs from {} read at {} "
-                     "beyond the rounding of either; both kept",
-                     lot_.units[u].id, r.lux,
-                     std::isnan(r.temp_c) ? std::string() : fmt::format(", {:g} degC", r.temp_c),
-                     ohm_text(r.ohm), ohm_text(first.ohm), where(first.source)));
+        } else {
+          std::stable_sort(order.begin(), order.end(), before);
+        }
+        check_group_duplicates(u, order, dropped);
+      }
+      auto& readings = lot_.units[u].readings;
+      readings.reserve(e - b);
+      for (std::uint32_t k = b; k < e; ++k) {
+        const std::uint32_t i = slots[k];
+        if (dropped[i]) continue;
+        readings.push_back(pending_[i].r);
+        tally_kept(pending_[i]);
+      }
+    }
+    pending_.clear();
+  }
+
+  void check_group_duplicates(std::size_t u, const std::vector<std::uint32_t>& order,
+                              std::vector<std::uint8_t>& dropped) {
+    for (std::size_t g = 0; g < order.size();) {
+      std::size_t end = g + 1;
+      while (end < order.size() && same_key(pending_[order[g]].r, pending_[order[end]].r)) ++end;
+      for (std::size_t j = g + 1; j < end; ++j) {
+        const Pending& later = pending_[order[j]];
+        const Pending* match = nullptr;
+        for (std::size_t i = g; i < j; ++i) {
+          const Pending& earlier = pending_[order[i]];
+          if (dropped[order[i]]) continue;
+          if (same_value(earlier.r, earlier.x, later.r, later.x)) {
+            match = &earlier;
+            break;
           }
         }
-        g = end;
+        const Reading& r = later.r;
+        if (match) {
+          dropped[order[j]] = 1;
+          ++lot_.counts.duplicates_dropped;
+          --lot_.counts.rows_used;
+          FileTally& t = tallies_[r.source.file_index];
+          ++t.duplicates;
+          if (t.first_duplicate_line == 0 || r.source.line < t.first_duplicate_line) {
+            t.first_duplicate_line = r.source.line;
+            t.first_duplicate_of = where(match->r.source);
+          }
+        } else {
+          const Reading& first = pending_[order[g]].r;
+          ++lot_.counts.conflicts;
+          note(r.source.file_index, r.source.line, later.x.column, Severity::warning,
+               fmt::format(
+                   "unit {} at {:g} lx{}: resistance {} differs from {} read at {} "
+                   "beyond the rounding of either; both kept",
+                   lot_.units[u].id, r.lux,
+                   std::isnan(r.temp_c) ? std::string() : fmt::format(", {:g} degC", r.temp_c),
+                   ohm_text(r.ohm), ohm_text(first.ohm), where(first.source)));
+        }
       }
-      if (!any) continue;
-      std::size_t w = 0;
-      for (std::size_t i = 0; i < readings.size(); ++i) {
-        if (dropped[i]) continue;
-        readings[w] = readings[i];
-        extras[w] = extras[i];
-        ++w;
-      }
-      readings.resize(w);
-      extras.resize(w);
+      g = end;
     }
   }
 
-  // Counts of dark and censored readings kept, and one note per file for each.
-  void summarise() {
-    for (std::size_t u = 0; u < lot_.units.size(); ++u) {
-      const auto& readings = lot_.units[u].readings;
-      for (std::size_t i = 0; i < readings.size(); ++i) {
-        const Reading& r = readings[i];
-        FileTally& t = tallies_[r.source.file_index];
-        if (r.kind == ReadingKind::dark) {
-          ++lot_.counts.dark;
-          ++t.dark;
-          if (t.first_dark_line == 0 || r.source.line < t.first_dark_line)
-            t.first_dark_line = r.source.line;
-        }
-        if (extras_[u][i].over_range) {
-          ++lot_.counts.censored;
-          ++t.censored;
-          if (std::isnan(r.ohm)) ++t.censored_unknown_bound;
-          if (t.first_censored_line == 0 || r.source.line < t.first_censored_line)
-            t.first_censored_line = r.source.line;
-        }
-      }
+  void tally_kept(const Pending& p) {
+    const Reading& r = p.r;
+    FileTally& t = tallies_[r.source.file_index];
+    if (r.kind == ReadingKind::dark) {
+      ++lot_.counts.dark;
+      ++t.dark;
+      if (t.first_dark_line == 0 || r.source.line < t.first_dark_line)
+        t.first_dark_line = r.source.line;
     }
+    if (p.x.over_range) {
+      ++lot_.counts.censored;
+      ++t.censored;
+      if (std::isnan(r.ohm)) ++t.censored_unknown_bound;
+      if (t.first_censored_line == 0 || r.source.line < t.first_censored_line)
+        t.first_censored_line = r.source.line;
+    }
+  }
+
+  // One note per file for its dark, censored and duplicate readings.
+  void summarise() {
     for (std::uint32_t f = 0; f < tallies_.size(); ++f) {
       const FileTally& t = tallies_[f];
       if (t.dark > 0)
@@ -806,10 +834,10 @@ class Builder {
 
   const ImportOptions& options_;
   Lot lot_;
-  std::vector<std::vector<ReadingExtra>> extras_;  // parallel to lot_.units[i].readings
-  std::vector<FileTally> tallies_;                 // per file
-  std::vector<std::uint32_t> diag_file_;           // file index of each diagnostic
-  std::map<std::string, std::uint32_t, std::less<>> ids_;
+  std::vector<Pending> pending_;          // readings of all files, in file order
+  std::vector<FileTally> tallies_;        // per file
+  std::vector<std::uint32_t> diag_file_;  // file index of each diagnostic
+  std::unordered_map<std::string, std::uint32_t> ids_;
   std::string last_id_;
   std::uint32_t last_index_ = 0;
   bool have_last_ = false;

@@ -4,20 +4,17 @@
 
 namespace photolot::detail {
 
-std::string_view field_text(const Field& field, std::string& scratch) {
-  std::string_view s = field.raw;
-  if (field.has_escapes) {
-    scratch.clear();
-    for (std::size_t i = 0; i < s.size(); ++i) {
-      scratch.push_back(s[i]);
-      if (s[i] == '"' && i + 1 < s.size() && s[i + 1] == '"') ++i;
-    }
-    s = scratch;
+std::string_view unquote_text(const Field& field, std::string& scratch) {
+  const std::string_view s = field.raw;
+  scratch.clear();
+  for (std::size_t i = 0; i < s.size(); ++i) {
+    scratch.push_back(s[i]);
+    if (s[i] == '"' && i + 1 < s.size() && s[i + 1] == '"') ++i;
   }
-  std::size_t b = 0, e = s.size();
-  while (b < e && (s[b] == ' ' || s[b] == '\t')) ++b;
-  while (e > b && (s[e - 1] == ' ' || s[e - 1] == '\t')) --e;
-  return s.substr(b, e - b);
+  std::size_t b = 0, e = scratch.size();
+  while (b < e && (scratch[b] == ' ' || scratch[b] == '\t')) ++b;
+  while (e > b && (scratch[e - 1] == ' ' || scratch[e - 1] == '\t')) --e;
+  return std::string_view(scratch).substr(b, e - b);
 }
 
 std::uint32_t column_of(const char* line_start, const char* at) {
@@ -94,6 +91,9 @@ CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
   // Blank lines, lines of delimiters only, and '#' comment lines.
   for (;;) {
     if (pos_ >= n) return Status::end;
+    const char c0 = base[pos_];
+    if (c0 != ' ' && c0 != '\t' && c0 != '#' && !stop_[static_cast<unsigned char>(c0)])
+      break;  // the usual case: the line starts with data
     std::size_t p = pos_;
     while (p < n && (base[p] == ' ' || base[p] == delimiter_ || (tab_is_space && base[p] == '\t')))
       ++p;
@@ -114,7 +114,8 @@ CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
   for (;;) {
     // A quoted field may have spaces before its opening quote.
     std::size_t q = pos_;
-    while (q < n && (base[q] == ' ' || (tab_is_space && base[q] == '\t'))) ++q;
+    if (q < n && (base[q] == ' ' || base[q] == '\t'))
+      while (q < n && (base[q] == ' ' || (tab_is_space && base[q] == '\t'))) ++q;
     std::size_t p;
     if (q < n && base[q] == '"') {
       Field f;
@@ -160,12 +161,11 @@ CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
     } else {
       p = pos_;
       while (p < n && !stop_[static_cast<unsigned char>(base[p])]) ++p;
-      Field f;
+      Field& f = fields.emplace_back();
       f.raw = std::string_view(base + pos_, p - pos_);
       f.start = base + pos_;
       f.line_start = base + line_start_;
       f.line = line_;
-      fields.push_back(f);
     }
     if (p < n && base[p] == delimiter_) {
       pos_ = p + 1;

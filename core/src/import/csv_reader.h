@@ -21,7 +21,15 @@ struct Field {
 };
 
 // The field's text: trimmed, with doubled quotes undone (into `scratch` when needed).
-std::string_view field_text(const Field& field, std::string& scratch);
+std::string_view unquote_text(const Field& field, std::string& scratch);
+inline std::string_view field_text(const Field& field, std::string& scratch) {
+  if (field.has_escapes) return unquote_text(field, scratch);
+  std::string_view s = field.raw;
+  std::size_t b = 0, e = s.size();
+  while (b < e && (s[b] == ' ' || s[b] == '\t')) ++b;
+  while (e > b && (s[e - 1] == ' ' || s[e - 1] == '\t')) --e;
+  return s.substr(b, e - b);
+}
 
 // 1-based column of `at` in its line, counted in characters (UTF-8 code points), as editors do.
 std::uint32_t column_of(const char* line_start, const char* at);

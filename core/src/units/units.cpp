@@ -12,6 +12,7 @@
 #include <array>
 #include <charconv>
 #include <cmath>
+#include <cstdint>
 #include <cstring>
 #include <limits>
 #include <string>
@@ -39,14 +40,19 @@ constexpr std::string_view kOhmSign = "\xE2\x84\xA6";  // U+2126 OHM SIGN
 constexpr std::string_view kMicro = "\xC2\xB5";        // U+00B5 MICRO SIGN
 constexpr std::string_view kMu = "\xCE\xBC";           // U+03BC GREEK SMALL LETTER MU
 
+// 10^0 .. 10^22: every one exactly representable in a double.
+constexpr std::array<double, 23> kExactPowersOfTen = [] {
+  std::array<double, 23> t{};
+  double v = 1;
+  for (std::size_t i = 0; i < t.size(); ++i, v *= 10) t[i] = v;
+  return t;
+}();
+
+// 10^e for the rounding step of a value as written (not needed exact).
 double pow10i(int e) {
-  static const auto table = [] {
-    std::array<double, 81> t{};
-    for (int i = 0; i < 81; ++i) t[i] = std::pow(10.0, i - 40);
-    return t;
-  }();
-  if (e < -40 || e > 40) return std::pow(10.0, e);
-  return table[static_cast<std::size_t>(e + 40)];
+  if (e >= 0 && e <= 22) return kExactPowersOfTen[static_cast<std::size_t>(e)];
+  if (e < 0 && e >= -22) return 1.0 / kExactPowersOfTen[static_cast<std::size_t>(-e)];
+  return std::pow(10.0, e);
 }
 
 bool is_digit(char c) { return c >= '0' && c <= '9'; }
@@ -67,21 +73,49 @@ struct Decimal {
   bool point_or_exponent = false;
 };
 
+// The slow path: std::from_chars on the digits (with '.' for the decimal mark).
+[[gnu::noinline]] std::optional<double> digits_to_double(std::string_view body, char decimal) {
+  std::string copy(body);
+  if (decimal != '.')
+    for (char& c : copy)
+      if (c == decimal) c = '.';
+  double value = 0;
+  auto [end, ec] =
+      std::from_chars(copy.data(), copy.data() + copy.size(), value, std::chars_format::general);
+  if (ec == std::errc::result_out_of_range) return std::numeric_limits<double>::infinity();
+  if (ec != std::errc() || end != copy.data() + copy.size()) return std::nullopt;
+  return value;
+}
+
 // A decimal number at the start of s; nullopt when s does not start with one.
+// Fast path (Clinger, "How to read floating point numbers accurately", 1990): with at most
+// 2^53 as the digits' integer and |exponent| <= 22, both are exact doubles and one IEEE
+// multiplication or division rounds correctly, so the result equals std::from_chars'.
 std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
+  const std::size_t n = s.size();
   std::size_t pos = 0;
   bool negative = false;
-  if (pos < s.size() && (s[pos] == '+' || s[pos] == '-')) negative = s[pos++] == '-';
+  if (pos < n && (s[pos] == '+' || s[pos] == '-')) negative = s[pos++] == '-';
   const std::size_t digits_start = pos;
-  while (pos < s.size() && is_digit(s[pos])) ++pos;
-  std::size_t int_digits = pos - digits_start;
+  std::uint64_t mantissa = 0;
+  int digits = 0;  // accumulated into mantissa
+  bool overflow = false;
+  auto take = [&](char c) {  // leading zeros count too: past 19 digits from_chars decides
+    overflow |= digits == 19;
+    if (digits < 19) {
+      mantissa = mantissa * 10 + static_cast<std::uint64_t>(c - '0');
+      ++digits;
+    }
+  };
+
+  while (pos < n && is_digit(s[pos])) take(s[pos++]);
+  const std::size_t int_digits = pos - digits_start;
   std::size_t frac_digits = 0;
   bool point = false;
-  if (pos < s.size() && s[pos] == decimal) {
-    const std::size_t frac_start = pos + 1;
-    std::size_t p = frac_start;
-    while (p < s.size() && is_digit(s[p])) ++p;
-    frac_digits = p - frac_start;
+  if (pos < n && s[pos] == decimal) {
+    std::size_t p = pos + 1;
+    while (p < n && is_digit(s[p])) take(s[p++]);
+    frac_digits = p - pos - 1;
     if (int_digits + frac_digits > 0) {
       point = true;
       pos = p;
@@ -90,13 +124,13 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
   if (int_digits + frac_digits == 0) return std::nullopt;
   int exponent = 0;
   bool has_exponent = false;
-  if (pos < s.size() && (s[pos] == 'e' || s[pos] == 'E')) {
+  if (pos < n && (s[pos] == 'e' || s[pos] == 'E')) {
     std::size_t p = pos + 1;
     bool exp_negative = false;
-    if (p < s.size() && (s[p] == '+' || s[p] == '-')) exp_negative = s[p++] == '-';
-    if (p < s.size() && is_digit(s[p])) {
+    if (p < n && (s[p] == '+' || s[p] == '-')) exp_negative = s[p++] == '-';
+    if (p < n && is_digit(s[p])) {
       int e = 0;
-      while (p < s.size() && is_digit(s[p])) {
+      while (p < n && is_digit(s[p])) {
         if (e < 10000) e = e * 10 + (s[p] - '0');
         ++p;
       }
@@ -105,40 +139,48 @@ std::optional<Decimal> scan_decimal(std::string_view s, char decimal) {
       pos = p;
     }
   }
-  // from_chars wants '.' and no leading '+'.
-  const std::size_t body_start = digits_start;
-  const std::size_t body_len = pos - body_start;
-  char small[64];
-  std::string large;
-  const char* first;
-  if (decimal == '.' || !point) {
-    first = s.data() + body_start;
-  } else {
-    char* out;
-    if (body_len <= sizeof small) {
-      out = small;
-    } else {
-      large.resize(body_len);
-      out = large.data();
-    }
-    std::memcpy(out, s.data() + body_start, body_len);
-    for (std::size_t i = 0; i < body_len; ++i)
-      if (out[i] == decimal) out[i] = '.';
-    first = out;
-  }
-  double value = 0;
-  auto [end, ec] = std::from_chars(first, first + body_len, value, std::chars_format::general);
-  if (ec == std::errc::result_out_of_range) {
-    value = std::numeric_limits<double>::infinity();  // caught as non-finite by the caller
-  } else if (ec != std::errc() || end != first + body_len) {
-    return std::nullopt;
-  }
   Decimal d;
-  d.value = negative ? -value : value;
   d.step_exp = exponent - static_cast<int>(frac_digits);
   d.length = pos;
   d.point_or_exponent = point || has_exponent;
+  double value;
+  if (!overflow && mantissa <= (std::uint64_t{1} << 53) && d.step_exp >= -22 && d.step_exp <= 22) {
+    const double m = static_cast<double>(mantissa);
+    value = d.step_exp >= 0 ? m * kExactPowersOfTen[static_cast<std::size_t>(d.step_exp)]
+                            : m / kExactPowersOfTen[static_cast<std::size_t>(-d.step_exp)];
+  } else {
+    const auto slow = digits_to_double(s.substr(digits_start, pos - digits_start), decimal);
+    if (!slow) return std::nullopt;
+    value = *slow;
+  }
+  d.value = negative ? -value : value;
   return d;
+}
+
+// The digits after an IEC 60062 multiplier letter: s[from...] are the fraction's digits, the
+// integer part is already read. 4K7 = (4 * 10 + 7) * 1e3 / 10: one rounding where it can.
+struct LetterCode {
+  double value = 0;
+  double half_step = 0;
+  std::size_t end = 0;
+};
+
+LetterCode letter_code(std::uint64_t integer, std::string_view s, std::size_t from, double mult) {
+  std::uint64_t digits = integer;
+  std::size_t p = from;
+  int places = 0;
+  while (p < s.size() && is_digit(s[p]) && places < 15) {
+    digits = digits * 10 + static_cast<std::uint64_t>(s[p] - '0');
+    ++places;
+    ++p;
+  }
+  while (p < s.size() && is_digit(s[p])) ++p;  // beyond double precision anyway
+  const double scale = kExactPowersOfTen[static_cast<std::size_t>(places)];
+  LetterCode code;
+  code.value = static_cast<double>(digits) * mult / scale;
+  code.half_step = 0.5 * mult / scale;
+  code.end = p;
+  return code;
 }
 
 // An SI prefix at the start of s: its multiplier and byte length.
@@ -216,13 +258,6 @@ std::string_view skip_spaces(std::string_view s) {
 
 namespace detail {
 
-std::string_view trim(std::string_view text) {
-  std::size_t b = 0, e = text.size();
-  while (b < e && (text[b] == ' ' || text[b] == '\t')) ++b;
-  while (e > b && (text[e - 1] == ' ' || text[e - 1] == '\t')) --e;
-  return text.substr(b, e - b);
-}
-
 bool is_non_finite_word(std::string_view text) {
   text = trim(text);
   if (!text.empty() && (text[0] == '+' || text[0] == '-')) text.remove_prefix(1);
@@ -254,16 +289,10 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
 
   if (const auto mult = letter_multiplier(t[0]); mult && t.size() > 1 && is_digit(t[1])) {
     // Letter first: "R47" = 0.47 ohm, "K47" = 470 ohm.
-    std::size_t p = 1;
-    double frac = 0, place = 0.1;
-    while (p < t.size() && is_digit(t[p])) {
-      frac += (t[p] - '0') * place;
-      place /= 10;
-      ++p;
-    }
-    v.value = frac * *mult;
-    v.half_step = 0.5 * place * 10 * *mult;
-    rest = t.substr(p);
+    const LetterCode code = letter_code(0, t, 1, *mult);
+    v.value = code.value;
+    v.half_step = code.half_step;
+    rest = t.substr(code.end);
     multiplier_seen = true;
   } else {
     const auto d = scan_decimal(t, decimal);
@@ -275,17 +304,11 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
     const auto letter = letter_multiplier(rest[0]);
     if (!d->point_or_exponent && letter && rest.size() > 1 && is_digit(rest[1])) {
       // Letter as the decimal point: "4K7", "1M0", "6L8", "47K3".
-      std::size_t p = 1;
-      double frac = 0, place = 0.1;
-      while (p < rest.size() && is_digit(rest[p])) {
-        frac += (rest[p] - '0') * place;
-        place /= 10;
-        ++p;
-      }
-      const double magnitude = std::abs(d->value) + frac;
-      v.value = (std::signbit(d->value) ? -magnitude : magnitude) * *letter;
-      v.half_step = 0.5 * place * 10 * *letter;
-      rest = rest.substr(p);
+      const LetterCode code =
+          letter_code(static_cast<std::uint64_t>(std::abs(d->value)), rest, 1, *letter);
+      v.value = std::signbit(d->value) ? -code.value : code.value;
+      v.half_step = code.half_step;
+      rest = rest.substr(code.end);
       multiplier_seen = true;
     } else {
       rest = skip_spaces(rest);

@@ -17,7 +17,12 @@ struct ScannedValue {
 };
 
 // Trims ASCII spaces and tabs.
-std::string_view trim(std::string_view text);
+inline std::string_view trim(std::string_view text) {
+  std::size_t b = 0, e = text.size();
+  while (b < e && (text[b] == ' ' || text[b] == '\t')) ++b;
+  while (e > b && (text[e - 1] == ' ' || text[e - 1] == '\t')) --e;
+  return text.substr(b, e - b);
+}
 
 // A resistance: plain number (column unit applies), SI prefix or IEC 60062 letter code with an
 // optional tolerance letter, optional trailing "ohm"/"Ω" (self-scaled, in ohm).

@@ -26,8 +26,12 @@ struct FitOptions {
   double min_span_decades = 1.0;  // log10(E_max / E_min) needed
   double confidence = 0.95;       // for the reported intervals (Student t, n - p dof)
   int threads = 0;                // 0: all cores. Results do not depend on it.
+  // Over-range readings under light: false leaves them out of the curve (counted and flagged);
+  // true hands such units to the extended fit (fitting/models.h: power law, the readings as
+  // one-sided terms), so that none is dropped.
+  bool over_range_bounds = false;
 
-  std::string validate() const;   // empty when valid
+  std::string validate() const;  // empty when valid
 };
 
 UnitFit fit_unit(const Unit& unit, const FitOptions& options = {});

@@ -1,0 +1,104 @@
+// The bench profile: the meter-accuracy formulas, the loader's errors, and the weights' effect
+// on the reported intervals.
+#include "photolot/bench_profile.h"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+#include "photolot/fitting/models.h"
+#include "simulate.h"
+
+namespace {
+
+using photolot::BenchProfile;
+using photolot::parse_bench_profile;
+
+constexpr const char* kProfile = R"(# invented bench: a 4.5-digit meter
+lux_pct = 2.0
+[[ohm_range]]
+max_ohm = 2e6
+pct = 0.8
+digits = 3
+resolution_ohm = 100
+[[ohm_range]]
+max_ohm = 2000
+pct = 0.5
+digits = 2
+resolution_ohm = 0.1
+)";
+
+TEST(BenchProfile, ReadsRangesAndPicksTheSmallestRangeThatHoldsTheReading) {
+  const auto r = parse_bench_profile("bench.toml", kProfile);
+  ASSERT_TRUE(r.ok()) << r.error->message;
+  const BenchProfile& p = *r.profile;
+  ASSERT_EQ(p.ohm_ranges.size(), 2u);
+  EXPECT_EQ(p.range_for(1500)->max_ohm, 2000);  // sorted, smallest first
+  EXPECT_EQ(p.range_for(2500)->max_ohm, 2e6);
+  // "+-(percent of reading + digits)": u/R = pct/100 + digits x resolution / R
+  // (the usual way meter accuracy is stated, common practice).
+  EXPECT_DOUBLE_EQ(p.ohm_relative_sd(1000), 0.005 + 2 * 0.1 / 1000);
+  EXPECT_DOUBLE_EQ(p.ohm_relative_sd(100e3), 0.008 + 3 * 100 / 100e3);
+  // Effective variance: the lux meter's 2 % through a slope of 0.8.
+  const double a = 0.005 + 2 * 0.1 / 1000, b = 0.8 * 0.02;
+  EXPECT_DOUBLE_EQ(p.ln_ohm_sd(1000, 0.8), std::sqrt(a * a + b * b));
+}
+
+TEST(BenchProfile, NamesFileLineAndColumnOfABadValue) {
+  const auto r = parse_bench_profile("bench.toml",
+                                     "lux_pct = 2\n[[ohm_range]]\nmax_ohm = 2e3\n"
+                                     "pct = \"half\"\n");
+  ASSERT_FALSE(r.ok());
+  EXPECT_EQ(r.error->file, "bench.toml");
+  EXPECT_EQ(r.error->line, 4u);
+  EXPECT_EQ(r.error->column, 7u);
+  EXPECT_NE(r.error->message.find("pct"), std::string::npos) << r.error->message;
+}
+
+TEST(BenchProfile, NamesTheLineOfATomlSyntaxErrorAndOfAnUnknownKey) {
+  const auto a = parse_bench_profile("b.toml", "lux_pct = 2\nlux_pct 3\n");
+  ASSERT_FALSE(a.ok());
+  EXPECT_EQ(a.error->line, 2u);
+  const auto b = parse_bench_profile("b.toml", "lux_pct = 2\nlux_percent = 3\n");
+  ASSERT_FALSE(b.ok());
+  EXPECT_EQ(b.error->line, 2u);
+  EXPECT_EQ(b.error->column, 1u);
+  EXPECT_NE(b.error->message.find("lux_percent"), std::string::npos);
+}
+
+TEST(BenchProfile, RejectsARangeWithNoErrorAtAll) {
+  const auto r = parse_bench_profile("b.toml", "[[ohm_range]]\nmax_ohm = 2e3\npct = 0\n");
+  ASSERT_FALSE(r.ok());
+  EXPECT_EQ(r.error->line, 1u);
+  EXPECT_NE(r.error->message.find("ohm_range 1"), std::string::npos) << r.error->message;
+}
+
+// With weights from a bench profile and near noise-free readings, the slope's standard error is
+// the meter's: for a straight line with known, equal sd sigma per point,
+// se(slope) = sigma / sqrt(sum (x - mean x)^2) (ordinary least squares, any regression text).
+TEST(MeterWeights, IntervalsReflectTheMetersStatedAccuracy) {
+  photolot::test::UnitSim sim;
+  sim.noise_pct = 0.001;
+  photolot::test::Rng rng(17);
+  const photolot::Unit unit = photolot::test::simulate_unit(sim, rng);
+  photolot::fitting::ExtendedFitOptions ext;
+  ext.model = photolot::fitting::ModelChoice::power_law;
+  ext.temperature = photolot::fitting::TemperatureMode::off;
+  BenchProfile p;
+  p.ohm_ranges = {{1e9, 1.0, 0, 0}};
+  p.lux_pct = 2.0;
+  ext.bench = p;
+  const photolot::UnitFit f = photolot::fitting::fit_unit_extended(unit, {}, ext);
+  ASSERT_TRUE(f.ok()) << f.message;
+  double mx = 0, sxx = 0;
+  for (double e : sim.lux) mx += std::log(e / 10) / sim.lux.size();
+  for (double e : sim.lux) sxx += (std::log(e / 10) - mx) * (std::log(e / 10) - mx);
+  const double sigma = std::hypot(0.01, sim.gamma * 0.02);
+  EXPECT_NEAR(f.gamma_sd, sigma / std::sqrt(sxx), 1e-3 * sigma / std::sqrt(sxx));
+  // Without the lux meter's share the interval is narrower, by the ratio of the sigmas.
+  ext.bench->lux_pct = 0;
+  const photolot::UnitFit g = photolot::fitting::fit_unit_extended(unit, {}, ext);
+  EXPECT_NEAR(g.gamma_sd / f.gamma_sd, 0.01 / sigma, 1e-3);
+}
+
+}  // namespace
