@@ -36,6 +36,11 @@ struct SimulateConfig {
   std::vector<double> levels;
   std::string out_path;    // --out
   std::string truth_path;  // --truth
+  // A second session: the first `session2_units` units re-measured at `session2_levels`
+  // (which are added to the simulated levels), written in the other dialect.
+  std::string session2_path;
+  std::vector<double> session2_levels;
+  std::size_t session2_units = 0;
 };
 CLI::App* add_simulate_command(CLI::App& app, SimulateConfig& config);
 int run_simulate(SimulateConfig& config);

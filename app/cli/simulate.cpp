@@ -1,5 +1,6 @@
 // photolot-cli simulate: a synthetic lot with known truth written as a bench log, so the
 // sample data and the benchmark lots can be made again from the command line.
+#include <algorithm>
 #include <cmath>
 
 #include <fmt/format.h>
@@ -30,6 +31,17 @@ CLI::App* add_simulate_command(CLI::App& app, SimulateConfig& c) {
       ->capture_default_str();
   cmd->add_option("--levels", c.levels, "Illuminance levels, lx (default 1 2 5 10 ... 1000)")
       ->delimiter(',');
+  const char* session = "A second session (to show merging)";
+  cmd->add_option("--session2-out", c.session2_path,
+                  "Write a second session's log here, in the other dialect")
+      ->group(session);
+  cmd->add_option("--session2-levels", c.session2_levels,
+                  "Levels measured in the second session only, lx")
+      ->delimiter(',')
+      ->group(session);
+  cmd->add_option("--session2-units", c.session2_units,
+                  "The first this many units are in the second session (default: all)")
+      ->group(session);
   const char* truth = "The lot's truth";
   cmd->add_option("--r10", c.r10, "Median R10, ohm (SI prefix allowed)")
       ->capture_default_str()
@@ -92,6 +104,9 @@ std::string check_spec(SimulateConfig& c) {
     if (auto e = ohm("--censor-above", c.censor_above, s.meter_max_ohm); !e.empty()) return e;
   if (!c.levels.empty()) s.lux_levels = c.levels;
   if (s.units < 1) return "--units must be at least 1";
+  if (c.session2_path.empty() != c.session2_levels.empty())
+    return "--session2-out and --session2-levels go together";
+  for (double lux : c.session2_levels) s.lux_levels.push_back(lux);
   for (double lux : s.lux_levels)
     if (!(lux > 0) || !std::isfinite(lux))
       return fmt::format("--levels: {} is not a positive illuminance", lux);
@@ -117,6 +132,28 @@ std::string truth_csv(const std::vector<synth::UnitTruth>& truth) {
   return out;
 }
 
+// Moves the readings at the second session's levels of the first `units` units into a lot of
+// their own; the other units lose them (they were never measured there).
+Lot split_second_session(Lot& lot, const std::vector<double>& levels, std::size_t units) {
+  Lot second;
+  second.name = lot.name + "-session2";
+  for (std::size_t i = 0; i < lot.units.size(); ++i) {
+    Unit& u = lot.units[i];
+    Unit moved{u.id, {}};
+    std::vector<Reading> kept;
+    for (const auto& r : u.readings) {
+      bool in_second = std::find(levels.begin(), levels.end(), r.lux) != levels.end();
+      if (!in_second)
+        kept.push_back(r);
+      else if (units == 0 || i < units)
+        moved.readings.push_back(r);
+    }
+    u.readings = std::move(kept);
+    if (!moved.readings.empty()) second.units.push_back(std::move(moved));
+  }
+  return second;
+}
+
 }  // namespace
 
 int run_simulate(SimulateConfig& c) {
@@ -126,7 +163,13 @@ int run_simulate(SimulateConfig& c) {
   }
   synth::SimulatedLot sim = synth::simulate(c.spec);
   auto dialect = c.dialect == "semicolon" ? synth::Dialect::semicolon : synth::Dialect::comma;
-  std::vector<std::pair<std::string, std::string>> outputs{{c.out_path, synth::to_csv(sim.lot, dialect)}};
+  std::vector<std::pair<std::string, std::string>> outputs;
+  if (!c.session2_path.empty()) {
+    Lot second = split_second_session(sim.lot, c.session2_levels, c.session2_units);
+    auto other = dialect == synth::Dialect::comma ? synth::Dialect::semicolon : synth::Dialect::comma;
+    outputs.emplace_back(c.session2_path, synth::to_csv(second, other));
+  }
+  outputs.emplace(outputs.begin(), c.out_path, synth::to_csv(sim.lot, dialect));
   if (!c.truth_path.empty()) outputs.emplace_back(c.truth_path, truth_csv(sim.truth));
   for (const auto& [path, text] : outputs) {
     if (auto err = write_file_atomically(path, text)) {

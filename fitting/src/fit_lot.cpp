@@ -10,17 +10,18 @@
 namespace photolot::fitting {
 
 std::string describe(const FitOptions& o) {
-  const double scale = std::log1p(o.meter_accuracy_pct / 100.0);
+  const double meter = std::log1p(o.meter_accuracy_pct / 100.0);
   std::string loss;
   switch (o.loss) {
     case Loss::huber:
     case Loss::cauchy:
       loss = fmt::format(
-          "{} loss, scale ln(1 + {:g} %) = {:.4g} in ln R, outliers beyond {:g} x scale",
-          to_string(o.loss), o.meter_accuracy_pct, scale, o.outlier_threshold);
+          "{} loss with its corner at max(ln(1 + {:g} %) = {:.4g}, 3 x the unit's scatter) in "
+          "ln R, outliers beyond {:g} x max(meter, scatter); covariance: Huber's H1 estimate",
+          to_string(o.loss), o.meter_accuracy_pct, meter, o.outlier_threshold);
       break;
     case Loss::none:
-      loss = "ordinary least squares (no robust loss)";
+      loss = "ordinary least squares (no robust loss); covariance: s^2 (X'X)^-1";
       break;
   }
   return fmt::format(

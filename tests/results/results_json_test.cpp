@@ -192,6 +192,18 @@ TEST(ResultsJson, ReadsBackWhatItWrote) {
   EXPECT_EQ(d.sections.begin().key(), "pairing");
 }
 
+TEST(ResultsJson, EscapesTextAndReplacesInvalidUtf8) {
+  // RFC 8259 section 7: quote, backslash and control characters are escaped; the document
+  // must stay valid UTF-8 (section 8.1), so a stray Latin-1 byte becomes U+FFFD.
+  ResultsDocument doc = sample_document();
+  doc.units[0].id = "A\"1\\x\ty";
+  doc.units[1].id = "caf\xe9";
+  ReadResult back = from_json_text(to_json_text(doc));
+  ASSERT_TRUE(back.ok()) << back.error->message;
+  EXPECT_EQ(back.doc.units[0].id, "A\"1\\x\ty");
+  EXPECT_EQ(back.doc.units[1].id, "caf\xef\xbf\xbd");
+}
+
 TEST(ResultsJson, PlacesASyntaxErrorByLineAndColumn) {
   ReadResult r = from_json_text("{\n  \"format\": photolot\n}\n");
   ASSERT_FALSE(r.ok());

@@ -3,7 +3,6 @@
 // offset basis 14695981039346656037 and prime 1099511628211 (Fowler, Noll and Vo, as in the
 // IETF draft "The FNV Non-Cryptographic Hash Algorithm"). A fingerprint, not a security hash.
 #include <fstream>
-#include <iterator>
 
 #include <fmt/format.h>
 
@@ -25,7 +24,9 @@ std::string fnv1a64_hex(std::string_view bytes) { return fmt::format("{:016x}", 
 std::optional<InputFile> describe_file(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
   if (!in) return std::nullopt;
-  std::string content((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  std::string content;
+  char block[1 << 16];
+  while (in.read(block, sizeof block) || in.gcount() > 0) content.append(block, in.gcount());
   if (in.bad()) return std::nullopt;
   return InputFile{path, content.size(), fnv1a64_hex(content)};
 }

@@ -1,6 +1,7 @@
 // The results document as JSON: writing (deterministic bytes) and reading back.
 // docs/results-format.md lists every key; keep the two in step.
 #include <cmath>
+#include <iterator>
 #include <map>
 
 #include <fmt/format.h>
@@ -11,12 +12,6 @@ namespace photolot::results {
 namespace {
 
 Json number(double v) { return std::isfinite(v) ? Json(v) : Json(nullptr); }
-Json pair(const std::array<double, 2>& v) { return Json::array({number(v[0]), number(v[1])}); }
-Json numbers(const std::vector<double>& v) {
-  Json out = Json::array();
-  for (double x : v) out.push_back(number(x));
-  return out;
-}
 
 Json temperature_to_json(const LotTemperature& t) {
   Json j = Json::object();
@@ -38,17 +33,6 @@ Json counts_to_json(const ImportCounts& c) {
   j["conflicts"] = c.conflicts;
   j["censored"] = c.censored;
   j["dark"] = c.dark;
-  return j;
-}
-
-Json curve_to_json(const Curve& c) {
-  Json j = Json::object();
-  j["model"] = std::string(to_string(c.model));
-  j["params"] = numbers(c.params);
-  j["covariance"] = numbers(c.covariance);
-  j["temperature_handled"] = c.temperature_handled;
-  j["tc10_pct_per_c"] = number(c.tc10_pct_per_c);
-  j["tc_slope_pct_per_c_per_decade"] = number(c.tc_slope_pct_per_c_per_decade);
   return j;
 }
 
@@ -265,56 +249,153 @@ ResultsDocument make_document(const Lot& lot, const LotFit& fit) {
   return doc;
 }
 
-Json unit_to_json(const UnitFit& u, bool with_residuals) {
-  Json j = Json::object();
-  j["id"] = u.id;
-  j["status"] = std::string(to_string(u.status));
-  j["message"] = u.message;
-  j["model"] = std::string(to_string(u.curve.model));
-  j["r10_ohm"] = number(u.r10_ohm);
-  j["r10_ci95_ohm"] = pair(u.r10_ci95_ohm);
-  j["gamma"] = number(u.gamma);
-  j["gamma_ci95"] = pair(u.gamma_ci95);
-  j["gamma_10_100"] = number(u.gamma_10_100);
-  j["ln_r10_sd"] = number(u.ln_r10_sd);
-  j["gamma_sd"] = number(u.gamma_sd);
-  j["rms_log_residual"] = number(u.rms_log_residual);
-  j["points"] = u.points;
-  j["levels"] = u.levels;
-  j["outlier_points"] = u.outlier_points;
-  j["censored_points"] = u.censored_points;
-  j["dark_readings"] = u.dark_readings;
-  j["dof"] = u.dof;
-  j["cost"] = number(u.cost);
-  j["iterations"] = u.iterations;
-  j["aicc_power_law"] = number(u.aicc_power_law);
-  j["aicc_dark_conductance"] = number(u.aicc_dark_conductance);
-  j["dark_conductance_s"] = number(u.dark_conductance_s);
-  j["temp_coeff_pct_per_c"] = number(u.temp_coeff_pct_per_c);
-  j["dark_ohm"] = numbers(u.dark_ohm);
-  Json censored = Json::array();
-  for (bool b : u.dark_censored) censored.push_back(b);
-  j["dark_censored"] = censored;
-  j["flags"] = u.flags;
-  j["curve"] = curve_to_json(u.curve);
-  if (with_residuals) {
-    Json points = Json::array();
-    for (const auto& p : u.residuals) {
-      Json q = Json::object();
-      q["reading_index"] = p.reading_index;
-      q["lux"] = number(p.lux);
-      q["ohm"] = number(p.ohm);
-      q["residual_ln"] = number(p.residual_ln);
-      q["weight"] = number(p.weight);
-      q["outlier"] = p.outlier;
-      points.push_back(std::move(q));
-    }
-    j["residuals"] = std::move(points);
+namespace {
+
+// The per-unit line is written directly (no DOM): a 10,000-unit lot would otherwise build and
+// free some 400,000 JSON values. Numbers are shortest round-trip, with ".0" on whole numbers as
+// nlohmann::json writes them, so a value reads back as a floating-point number everywhere.
+class LineWriter {
+ public:
+  explicit LineWriter(fmt::memory_buffer& out) : out_(out) {}
+  void open() { out_.push_back('{'); first_ = true; }
+  void close() { out_.push_back('}'); first_ = false; }
+  void key(std::string_view k) {
+    if (!first_) out_.push_back(',');
+    first_ = false;
+    out_.push_back('"');
+    out_.append(k);  // keys are ours: plain ASCII, nothing to escape
+    out_.append(std::string_view("\":"));
   }
-  return j;
+  void number(double v) {
+    if (!std::isfinite(v)) {
+      out_.append(std::string_view("null"));
+      return;
+    }
+    auto start = out_.size();
+    fmt::format_to(std::back_inserter(out_), "{}", v);
+    std::string_view written(out_.data() + start, out_.size() - start);
+    if (written.find_first_of(".e") == std::string_view::npos) out_.append(std::string_view(".0"));
+  }
+  void integer(long long v) { fmt::format_to(std::back_inserter(out_), "{}", v); }
+  void boolean(bool b) { out_.append(b ? std::string_view("true") : std::string_view("false")); }
+  void text(std::string_view s) {
+    bool plain = true;  // printable ASCII with nothing to escape: written as it is
+    for (unsigned char c : s) plain = plain && c >= 0x20 && c < 0x7f && c != '"' && c != '\\';
+    if (plain) {
+      out_.push_back('"');
+      out_.append(s);
+      out_.push_back('"');
+      return;
+    }
+    // nlohmann's escaping, with invalid UTF-8 replaced by U+FFFD rather than failing.
+    out_.append(Json(std::string(s)).dump(-1, ' ', false, Json::error_handler_t::replace));
+  }
+  template <typename Range, typename Fn>
+  void array(const Range& values, Fn each) {
+    out_.push_back('[');
+    bool first = true;
+    for (const auto& v : values) {
+      if (!first) out_.push_back(',');
+      first = false;
+      each(v);
+    }
+    out_.push_back(']');
+  }
+  void numbers(const std::vector<double>& v) {
+    array(v, [this](double x) { number(x); });
+  }
+  void pair(const std::array<double, 2>& v) {
+    array(v, [this](double x) { number(x); });
+  }
+  void num(std::string_view k, double v) { key(k); number(v); }
+  void count(std::string_view k, long long v) { key(k); integer(v); }
+  void str(std::string_view k, std::string_view v) { key(k); text(v); }
+
+ private:
+  fmt::memory_buffer& out_;
+  bool first_ = true;
+};
+
+void append_unit(fmt::memory_buffer& out, const UnitFit& u, bool with_residuals) {
+  LineWriter w(out);
+  w.open();
+  w.str("id", u.id);
+  w.str("status", to_string(u.status));
+  w.str("message", u.message);
+  w.str("model", to_string(u.curve.model));
+  w.num("r10_ohm", u.r10_ohm);
+  w.key("r10_ci95_ohm");
+  w.pair(u.r10_ci95_ohm);
+  w.num("gamma", u.gamma);
+  w.key("gamma_ci95");
+  w.pair(u.gamma_ci95);
+  w.num("gamma_10_100", u.gamma_10_100);
+  w.num("ln_r10_sd", u.ln_r10_sd);
+  w.num("gamma_sd", u.gamma_sd);
+  w.num("rms_log_residual", u.rms_log_residual);
+  w.count("points", u.points);
+  w.count("levels", u.levels);
+  w.count("outlier_points", u.outlier_points);
+  w.count("censored_points", u.censored_points);
+  w.count("dark_readings", u.dark_readings);
+  w.count("dof", u.dof);
+  w.num("cost", u.cost);
+  w.count("iterations", u.iterations);
+  w.num("aicc_power_law", u.aicc_power_law);
+  w.num("aicc_dark_conductance", u.aicc_dark_conductance);
+  w.num("dark_conductance_s", u.dark_conductance_s);
+  w.num("temp_coeff_pct_per_c", u.temp_coeff_pct_per_c);
+  w.key("dark_ohm");
+  w.numbers(u.dark_ohm);
+  w.key("dark_censored");
+  w.array(u.dark_censored, [&](bool b) { w.boolean(b); });
+  w.key("flags");
+  w.array(u.flags, [&](const std::string& f) { w.text(f); });
+  w.key("curve");
+  {
+    LineWriter c(out);
+    c.open();
+    c.str("model", to_string(u.curve.model));
+    c.key("params");
+    c.numbers(u.curve.params);
+    c.key("covariance");
+    c.numbers(u.curve.covariance);
+    c.key("temperature_handled");
+    c.boolean(u.curve.temperature_handled);
+    c.num("tc10_pct_per_c", u.curve.tc10_pct_per_c);
+    c.num("tc_slope_pct_per_c_per_decade", u.curve.tc_slope_pct_per_c_per_decade);
+    c.close();
+  }
+  if (with_residuals) {
+    w.key("residuals");
+    w.array(u.residuals, [&](const PointFit& p) {
+      LineWriter q(out);
+      q.open();
+      q.count("reading_index", static_cast<long long>(p.reading_index));
+      q.num("lux", p.lux);
+      q.num("ohm", p.ohm);
+      q.num("residual_ln", p.residual_ln);
+      q.num("weight", p.weight);
+      q.key("outlier");
+      q.boolean(p.outlier);
+      q.close();
+    });
+  }
+  w.close();
 }
 
-Json to_json(const ResultsDocument& doc) {
+}  // namespace
+
+Json unit_to_json(const UnitFit& u, bool with_residuals) {
+  fmt::memory_buffer out;
+  append_unit(out, u, with_residuals);
+  return Json::parse(std::string_view(out.data(), out.size()));
+}
+
+namespace {
+
+// Everything but the units, in document order; "units" holds an empty placeholder array.
+Json header_to_json(const ResultsDocument& doc) {
   Json j = Json::object();
   j["format"] = std::string(kFormatName);
   j["version"] = kFormatVersion;
@@ -334,9 +415,7 @@ Json to_json(const ResultsDocument& doc) {
   j["inputs"] = std::move(inputs);
   j["import"] = counts_to_json(doc.import_counts);
   j["fit"] = fit_summary_to_json(doc);
-  Json units = Json::array();
-  for (const auto& u : doc.units) units.push_back(unit_to_json(u, doc.with_residuals));
-  j["units"] = std::move(units);
+  j["units"] = Json::array();
   Json diagnostics = Json::array();
   for (const auto& d : doc.diagnostics) diagnostics.push_back(diagnostic_to_json(d));
   j["diagnostics"] = std::move(diagnostics);
@@ -346,37 +425,58 @@ Json to_json(const ResultsDocument& doc) {
   return j;
 }
 
+void append_indented(fmt::memory_buffer& out, const Json& value) {
+  std::string text = value.dump(2, ' ', false, Json::error_handler_t::replace);
+  for (char c : text) {
+    out.push_back(c);
+    if (c == '\n') out.append(std::string_view("  "));
+  }
+}
+
+}  // namespace
+
+// The text is the one true form: to_json() parses it, so the DOM and the file never differ.
+Json to_json(const ResultsDocument& doc) { return Json::parse(to_json_text(doc)); }
+
 // Indented two spaces, except that each element of "units" and "diagnostics" is one compact
 // line: a 10,000-unit document stays a few megabytes, and a unit is one grep-able line.
 std::string to_json_text(const ResultsDocument& doc) {
-  const Json j = to_json(doc);
-  std::string out = "{\n";
+  const Json header = header_to_json(doc);
+  fmt::memory_buffer out;
+  out.append(std::string_view("{\n"));
   bool first = true;
-  for (const auto& [key, value] : j.items()) {
-    if (!first) out += ",\n";
+  for (const auto& [key, value] : header.items()) {
+    if (!first) out.append(std::string_view(",\n"));
     first = false;
-    out += "  ";
-    out += Json(key).dump();
-    out += ": ";
-    if ((key == "units" || key == "diagnostics") && value.is_array() && !value.empty()) {
-      out += "[\n";
+    out.append(std::string_view("  "));
+    out.append(Json(key).dump());
+    out.append(std::string_view(": "));
+    if (key == "units") {
+      if (doc.units.empty()) {
+        out.append(std::string_view("[]"));
+        continue;
+      }
+      out.append(std::string_view("[\n"));
+      for (std::size_t i = 0; i < doc.units.size(); ++i) {
+        out.append(std::string_view("    "));
+        append_unit(out, doc.units[i], doc.with_residuals);
+        out.append(i + 1 < doc.units.size() ? std::string_view(",\n") : std::string_view("\n"));
+      }
+      out.append(std::string_view("  ]"));
+    } else if (key == "diagnostics" && !value.empty()) {
+      out.append(std::string_view("[\n"));
       for (std::size_t i = 0; i < value.size(); ++i) {
-        out += "    ";
-        out += value[i].dump(-1, ' ', false, Json::error_handler_t::replace);
-        out += i + 1 < value.size() ? ",\n" : "\n";
+        out.append(std::string_view("    "));
+        out.append(value[i].dump(-1, ' ', false, Json::error_handler_t::replace));
+        out.append(i + 1 < value.size() ? std::string_view(",\n") : std::string_view("\n"));
       }
-      out += "  ]";
+      out.append(std::string_view("  ]"));
     } else {
-      std::string text = value.dump(2, ' ', false, Json::error_handler_t::replace);
-      // Indent the nested lines by the two spaces of this level.
-      for (char c : text) {
-        out += c;
-        if (c == '\n') out += "  ";
-      }
+      append_indented(out, value);
     }
   }
-  out += "\n}\n";
-  return out;
+  out.append(std::string_view("\n}\n"));
+  return fmt::to_string(out);
 }
 
 ReadResult from_json(const Json& j) {
