@@ -315,6 +315,8 @@ void CurvesView::rebuild() {
   ry->setRange(-reach, reach);
   rx->setRange(x->range());
   plot_->legend->setVisible(detailed_ ? !series_.empty() : true);
+  // A whole lot is hundreds of thousands of markers: unsmoothed, they draw several times faster.
+  plot_->setNotAntialiasedElements(detailed_ ? QCP::aeNone : QCP::aeScatters | QCP::aePlottables);
   plot_->replot(QCustomPlot::rpQueuedReplot);
 }
 

@@ -906,12 +906,23 @@ void MainWindow::savePickList() {
 }
 
 void MainWindow::selectUnits(const std::vector<int>& units) {
-  QItemSelection selection;
+  // One range per run of consecutive table rows: a selection of thousands of single rows is
+  // slow in Qt's selection model, a few ranges are not.
+  std::vector<int> rows;
+  rows.reserve(units.size());
   for (int u : units) {
-    const QModelIndex source = model_->index(u, 0);
-    const QModelIndex proxy = filter_->mapFromSource(source);
-    if (!proxy.isValid()) continue;
-    selection.select(proxy, proxy.siblingAtColumn(UnitTableModel::kColumnCount - 1));
+    const QModelIndex proxy = filter_->mapFromSource(model_->index(u, 0));
+    if (proxy.isValid()) rows.push_back(proxy.row());
+  }
+  std::sort(rows.begin(), rows.end());
+  QItemSelection selection;
+  const int last_column = UnitTableModel::kColumnCount - 1;
+  for (std::size_t i = 0; i < rows.size();) {
+    std::size_t j = i;
+    while (j + 1 < rows.size() && rows[j + 1] <= rows[j] + 1) ++j;
+    selection.append(QItemSelectionRange(filter_->index(rows[i], 0),
+                                         filter_->index(rows[j], last_column)));
+    i = j + 1;
   }
   table_->selectionModel()->select(selection, QItemSelectionModel::ClearAndSelect |
                                                   QItemSelectionModel::Rows);
