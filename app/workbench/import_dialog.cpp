@@ -1,5 +1,7 @@
 #include "import_dialog.h"
 
+#include "diagnostics_list.h"
+
 #include <QComboBox>
 #include <QDialogButtonBox>
 #include <QFileInfo>
@@ -316,28 +318,7 @@ void ImportDialog::showTrial() {
                         .arg(c.conflicts)
                         .arg(c.censored)
                         .arg(c.dark));
-  diagnostics_->clear();
-  auto add = [this](const std::string& file, std::uint32_t line, std::uint32_t column,
-                    const QString& severity, const std::string& message) {
-    auto* item = new QTreeWidgetItem(diagnostics_);
-    item->setText(0, QFileInfo(QString::fromStdString(file)).fileName());
-    item->setToolTip(0, QString::fromStdString(file));
-    item->setText(1, line ? QString::number(line) : QString());
-    item->setText(2, column ? QString::number(column) : QString());
-    item->setText(3, severity);
-    item->setText(4, QString::fromStdString(message));
-  };
-  for (const auto& e : result.errors) add(e.file, e.line, e.column, tr("error"), e.message);
-  constexpr std::size_t kShown = 2000;  // the rest are counted, not listed
-  for (std::size_t i = 0; i < result.lot.diagnostics.size() && i < kShown; ++i) {
-    const auto& d = result.lot.diagnostics[i];
-    add(d.file, d.line, d.column, QString::fromUtf8(to_string(d.severity).data()), d.message);
-  }
-  if (result.lot.diagnostics.size() > kShown) {
-    add({}, 0, 0, tr("note"),
-        fmt::format("{} more not listed", result.lot.diagnostics.size() - kShown));
-  }
-  diagnostics_->resizeColumnToContents(0);
+  fill_diagnostics(diagnostics_, result, 2000);  // the rest are counted, not listed
   emit trialFinished();
 }
 

@@ -36,6 +36,7 @@
 #include <unordered_map>
 
 #include "curves_view.h"
+#include "diagnostics_list.h"
 #include "help_text.h"
 #include "import_dialog.h"
 #include "acceptance_view.h"
@@ -706,8 +707,8 @@ void MainWindow::onProgress(AnalysisSession::Step step, qint64 done, qint64 tota
 
 void MainWindow::onImportFinished() {
   const auto result = session_.importResult();
-  import_log_->clear();
   if (!result) {
+    import_log_->clear();
     model_->setLot(nullptr, nullptr);
     curves_->setLot(nullptr, nullptr);
     spread_->setFit(nullptr);
@@ -716,22 +717,7 @@ void MainWindow::onImportFinished() {
     updateCountLabel();
     return;
   }
-  auto add = [this](const std::string& file, std::uint32_t line, std::uint32_t column,
-                    const QString& severity, const std::string& message) {
-    auto* item = new QTreeWidgetItem(import_log_);
-    item->setText(0, QFileInfo(QString::fromStdString(file)).fileName());
-    item->setToolTip(0, QString::fromStdString(file));
-    item->setText(1, line ? QString::number(line) : QString());
-    item->setText(2, column ? QString::number(column) : QString());
-    item->setText(3, severity);
-    item->setText(4, QString::fromStdString(message));
-  };
-  for (const auto& e : result->errors) add(e.file, e.line, e.column, tr("error"), e.message);
-  constexpr std::size_t kShown = 5000;
-  for (std::size_t i = 0; i < result->lot.diagnostics.size() && i < kShown; ++i) {
-    const auto& d = result->lot.diagnostics[i];
-    add(d.file, d.line, d.column, QString::fromUtf8(to_string(d.severity).data()), d.message);
-  }
+  fill_diagnostics(import_log_, *result, 5000);
   const int issues = static_cast<int>(result->errors.size() + result->lot.diagnostics.size());
   tabs_->setTabText(4, issues ? tr("Import log (%1)").arg(issues) : tr("Import log"));
 
