@@ -1,6 +1,7 @@
 // Per-unit verdicts against a spec: each limit broken is a reason with value, limit and excess.
 #include <gtest/gtest.h>
 
+#include <cmath>
 #include <nlohmann/json.hpp>
 
 #include "photolot/acceptance.h"
@@ -124,4 +125,20 @@ TEST(Verdict, JsonListsReasonsAndNotes) {
   EXPECT_EQ(j["reasons"][0]["limit"], "max");
   EXPECT_DOUBLE_EQ(j["reasons"][0]["limit_value"].get<double>(), 23e3);
   EXPECT_EQ(j["notes"].size(), 1u);  // no dark reading
+}
+
+TEST(Verdict, JudgesTheResistanceWindowAtTheSpecsReferenceIlluminance) {
+  // A spec written for 100 lx: the power law gives R(100 lx) = R10 / 10^gamma
+  // (gamma = log10(R10 / R100), the two-point definition common across photoresistor
+  // datasheets: common practice).
+  auto u = unit(20e3, 0.75);
+  u.curve = photolot::make_power_law(20e3, 0.75);
+  Spec s = demo_spec();
+  s.conditions.reference_lux = 100;
+  s.r10_ohm = {2e3, 3e3};  // 20 k / 10^0.75 = 3.56 k: above max
+  const auto v = judge_unit(u, s);
+  ASSERT_EQ(v.reasons.size(), 1u);
+  EXPECT_NEAR(v.reasons[0].measured, 20e3 / std::pow(10.0, 0.75), 1e-6);
+  EXPECT_EQ(v.reasons[0].text.rfind("R at 100 lx 3.56 k\u03a9 above max 3 k\u03a9", 0), 0u)
+      << v.reasons[0].text;
 }

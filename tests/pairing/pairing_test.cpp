@@ -34,20 +34,9 @@ struct Best {
   int pairs = 0;
   double total = 0;
 };
-Best brute_force(const LotFit& fit, const PairOptions& o) {
-  const int n = int(fit.units.size());
-  std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
-  for (int i = 0; i < n; ++i)
-    for (int j = i + 1; j < n; ++j) {
-      const auto& a = fit.units[i].curve;
-      const auto& b = fit.units[j].curve;
-      const double dlo = a.ln_ohm(o.lux_lo) - b.ln_ohm(o.lux_lo);
-      const double dhi = a.ln_ohm(o.lux_hi) - b.ln_ohm(o.lux_hi);
-      const double ln_e = o.mode == TrackingMode::absolute ? std::max(std::abs(dlo), std::abs(dhi))
-                                                           : std::abs(dhi - dlo);
-      const double pct = 100 * std::expm1(ln_e);
-      if (pct <= o.tolerance_pct) err[i][j] = err[j][i] = pct;
-    }
+// Exhaustive search over matchings of the graph with err[i][j] >= 0 for pairs within tolerance.
+Best best_matching(const std::vector<std::vector<double>>& err) {
+  const int n = int(err.size());
   Best best;
   std::vector<char> used(n, 0);
   std::function<void(int, int, double)> go = [&](int from, int pairs, double total) {
@@ -69,6 +58,23 @@ Best brute_force(const LotFit& fit, const PairOptions& o) {
   };
   go(0, 0, 0.0);
   return best;
+}
+
+Best brute_force(const LotFit& fit, const PairOptions& o) {
+  const int n = int(fit.units.size());
+  std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
+  for (int i = 0; i < n; ++i)
+    for (int j = i + 1; j < n; ++j) {
+      const auto& a = fit.units[i].curve;
+      const auto& b = fit.units[j].curve;
+      const double dlo = a.ln_ohm(o.lux_lo) - b.ln_ohm(o.lux_lo);
+      const double dhi = a.ln_ohm(o.lux_hi) - b.ln_ohm(o.lux_hi);
+      const double ln_e = o.mode == TrackingMode::absolute ? std::max(std::abs(dlo), std::abs(dhi))
+                                                           : std::abs(dhi - dlo);
+      const double pct = 100 * std::expm1(ln_e);
+      if (pct <= o.tolerance_pct) err[i][j] = err[j][i] = pct;
+    }
+  return best_matching(err);
 }
 
 LotFit random_plane_lot(std::mt19937_64& rng, int n, double side_ln) {
@@ -250,27 +256,7 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
             photolot::tracking_error(fit.units[i].curve, fit.units[j].curve, o).error_pct;
         if (e <= o.tolerance_pct) err[i][j] = err[j][i] = e;
       }
-    Best best;
-    std::vector<char> used(n, 0);
-    std::function<void(int, int, double)> go = [&](int from, int pairs, double total) {
-      int v = from;
-      while (v < n && used[v]) ++v;
-      if (v >= n) {
-        if (pairs > best.pairs || (pairs == best.pairs && total < best.total))
-          best = {pairs, total};
-        return;
-      }
-      used[v] = 1;
-      go(v + 1, pairs, total);
-      for (int w = v + 1; w < n; ++w)
-        if (!used[w] && err[v][w] >= 0) {
-          used[w] = 1;
-          go(v + 1, pairs + 1, total + err[v][w]);
-          used[w] = 0;
-        }
-      used[v] = 0;
-    };
-    go(0, 0, 0.0);
+    const Best best = best_matching(err);
     EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed;
     EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
     EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
@@ -424,4 +410,22 @@ TEST(Pairing, StopsWhenAskedAndSaysSo) {
   EXPECT_TRUE(p.cancelled);
   EXPECT_TRUE(p.pairs.empty());
   EXPECT_EQ(p.proof, ProofStatus::not_proved);
+}
+
+TEST(Pairing, ReportsProgressUpToItsTotal) {
+  std::mt19937_64 rng(2);
+  const LotFit fit = random_plane_lot(rng, 300, 0.05);
+  std::size_t last_done = 0, last_total = 0, calls = 0;
+  bool monotone = true;
+  const Pairing p =
+      photolot::pair_units(fit, PairOptions{}, [&](std::size_t done, std::size_t total) {
+        monotone = monotone && done >= last_done && done <= total;
+        last_done = done;
+        last_total = total;
+        ++calls;
+      });
+  EXPECT_FALSE(p.cancelled);
+  EXPECT_GT(calls, 1u);
+  EXPECT_TRUE(monotone);
+  EXPECT_EQ(last_done, last_total);
 }

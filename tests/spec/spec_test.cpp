@@ -206,3 +206,22 @@ TEST(SpecValidate, NamesTheFieldAndTheRule) {
   s.gamma = {};
   EXPECT_TRUE(contains(s.validate(), "no limit is set"));
 }
+
+TEST(SpecFile, ReadsResistancesWithSiPrefixesAndUnits) {
+  // SI prefixes (BIPM, The International System of Units, 9th edition): k = 1e3, M = 1e6;
+  // IEC 60062 letter code: 4K7 = 4.7 kohm.
+  struct Case {
+    const char* text;
+    double ohm;
+  };
+  const Case cases[] = {{"\"15k\"", 15e3},       {"\"1.5M\"", 1.5e6},
+                        {"\"220 kohm\"", 220e3}, {"\"4.7 M\u03a9\"", 4.7e6},
+                        {"\"12K\"", 12e3},       {"2.2e4", 2.2e4},
+                        {"\"680\"", 680.0},      {"\"4k7\"", 4.7e3} /* IEC 60062 letter code */,
+                        {"\"680 ohm\"", 680.0}};
+  for (const auto& c : cases) {
+    const auto r = parse_spec(with_line(11, std::string("dark_min_ohm = ") + c.text), "s.toml");
+    ASSERT_TRUE(r.ok()) << c.text << ": " << (r.errors.empty() ? "" : r.errors[0].message);
+    EXPECT_DOUBLE_EQ(r.spec->dark_min_ohm, c.ohm) << c.text;
+  }
+}

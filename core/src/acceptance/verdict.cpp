@@ -38,7 +38,7 @@ double excess_pct(double measured, double limit) {
   return std::abs(measured - limit) / std::abs(limit) * 100;
 }
 
-void check_window(UnitVerdict& v, Characteristic c, std::string_view label, double measured,
+void check_window(UnitVerdict& v, Characteristic c, const std::string& label, double measured,
                   const Limits& limits, bool ohm) {
   auto show = [&](double x) { return ohm ? format_ohm(x) : fmt::format("{:.3g}", x); };
   auto add = [&](std::string_view side, double limit, std::string_view word) {
@@ -119,7 +119,15 @@ UnitVerdict judge_unit(const UnitFit& unit, const Spec& spec) {
                                      unit.message.empty() ? "" : ": ", unit.message);
     v.reasons.push_back(std::move(r));
   } else {
-    check_window(v, Characteristic::r10, "R10", unit.r10_ohm, spec.r10_ohm, true);
+    // The resistance window applies at the spec's reference illuminance: R10 itself at 10 lx,
+    // otherwise the fitted curve read at that level.
+    const double ref_lux = spec.conditions.reference_lux;
+    if (std::abs(ref_lux - kReferenceLux) < 1e-9 || unit.curve.params.empty()) {
+      check_window(v, Characteristic::r10, "R10", unit.r10_ohm, spec.r10_ohm, true);
+    } else {
+      check_window(v, Characteristic::r10, fmt::format("R at {:g} lx", ref_lux),
+                   unit.curve.ohm(ref_lux), spec.r10_ohm, true);
+    }
     check_window(v, Characteristic::gamma, "gamma", unit.gamma, spec.gamma, false);
     if (!std::isnan(spec.max_rms_log_residual) && std::isfinite(unit.rms_log_residual))
       check_window(v, Characteristic::rms_log_residual, "RMS log residual", unit.rms_log_residual,

@@ -229,12 +229,18 @@ struct DisjointSets {
 };
 
 // The matching and its dual (LEMON's, scaled by 4 for integer weights), per node of the lot.
+// Blossoms (odd sets with a dual value z_B) nest; LEMON lists each one as a range of one node
+// list, so a blossom is kept as a range [begin, end) of positions given to the nodes.
 struct Solution {
   std::vector<std::int64_t> mate;       // node or -1
   std::vector<std::int64_t> potential;  // y_u
+  std::vector<std::uint64_t> position;  // node -> position, for nodes in some blossom
+  std::vector<char> has_position;
+  std::uint64_t next_position = 0;
   struct Blossom {
     std::int64_t value;  // z_B
-    std::vector<std::uint32_t> members;
+    std::uint64_t begin, end;
+    std::uint32_t some_member;  // names the component, for dropping it when solved again
   };
   std::vector<Blossom> blossoms;
 };
@@ -264,14 +270,97 @@ void solve_component(const std::vector<std::uint32_t>& nodes, const std::vector<
     const Graph::Node mate = m.mate(handle[k]);
     sol.mate[nodes[k]] = mate == lemon::INVALID ? -1 : std::int64_t(nodes[g.id(mate)]);
     sol.potential[nodes[k]] = m.nodeValue(handle[k]);
+    sol.has_position[nodes[k]] = 0;
   }
-  for (int b = 0; b < m.blossomNum(); ++b) {
-    Solution::Blossom blossom{m.blossomValue(b), {}};
-    for (Matcher::BlossomIt it(m, b); it != lemon::INVALID; ++it)
-      blossom.members.push_back(nodes[g.id(Graph::Node(it))]);
-    sol.blossoms.push_back(std::move(blossom));
+  // Blossoms come inner first (post-order). Walking them outer first, a blossom whose first
+  // node has no position yet is outermost: its nodes get consecutive positions in LEMON's
+  // order, and every blossom inside it is then the range from its first node's position.
+  // Only outermost blossoms are walked node by node, so this is linear in the component.
+  for (int b = m.blossomNum() - 1; b >= 0; --b) {
+    Matcher::BlossomIt it(m, b);
+    const std::uint32_t first = nodes[g.id(Graph::Node(it))];
+    const auto size = static_cast<std::uint64_t>(m.blossomSize(b));
+    if (!sol.has_position[first]) {
+      for (; it != lemon::INVALID; ++it) {
+        const std::uint32_t v = nodes[g.id(Graph::Node(it))];
+        sol.position[v] = sol.next_position++;
+        sol.has_position[v] = 1;
+      }
+    }
+    const std::uint64_t begin = sol.position[first];
+    sol.blossoms.push_back({m.blossomValue(b), begin, begin + size, first});
   }
 }
+
+// The forest of nested blossoms, for the sum of z_B over the blossoms holding two nodes: the
+// blossoms holding both are the ancestors of the innermost one holding the first whose range
+// also covers the second, found by binary lifting.
+class BlossomForest {
+ public:
+  BlossomForest(const Solution& sol, std::size_t n) : sol_(sol), innermost_(n, -1) {
+    const auto& bl = sol.blossoms;
+    std::vector<std::uint32_t> order(bl.size());
+    std::iota(order.begin(), order.end(), 0u);
+    std::sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) {
+      return std::tie(bl[a].begin, bl[b].end) < std::tie(bl[b].begin, bl[a].end);
+    });
+    std::vector<std::uint32_t> nodes;
+    for (std::uint32_t v = 0; v < n; ++v)
+      if (sol.has_position[v]) nodes.push_back(v);
+    std::sort(nodes.begin(), nodes.end(),
+              [&](std::uint32_t a, std::uint32_t b) { return sol.position[a] < sol.position[b]; });
+    std::size_t levels = 1;
+    while ((std::size_t(1) << levels) < bl.size() + 1) ++levels;
+    up_.assign(levels, std::vector<std::int32_t>(bl.size(), -1));
+    prefix_.assign(bl.size(), 0);
+    // Sweep positions: open blossoms on a stack, inner on top.
+    std::vector<std::uint32_t> open;
+    std::size_t next = 0;
+    auto close_before = [&](std::uint64_t pos) {
+      while (!open.empty() && bl[open.back()].end <= pos) open.pop_back();
+    };
+    auto push_starting_at_or_before = [&](std::uint64_t pos) {
+      while (next < order.size() && bl[order[next]].begin <= pos) {
+        const std::uint32_t b = order[next++];
+        close_before(bl[b].begin);
+        up_[0][b] = open.empty() ? -1 : std::int32_t(open.back());
+        prefix_[b] = Wide(bl[b].value) + (open.empty() ? Wide(0) : prefix_[open.back()]);
+        open.push_back(b);
+      }
+    };
+    for (std::uint32_t v : nodes) {
+      push_starting_at_or_before(sol.position[v]);
+      close_before(sol.position[v]);
+      innermost_[v] = open.empty() ? -1 : std::int32_t(open.back());
+    }
+    push_starting_at_or_before(std::numeric_limits<std::uint64_t>::max());
+    for (std::size_t j = 1; j < levels; ++j)
+      for (std::size_t b = 0; b < bl.size(); ++b)
+        up_[j][b] = up_[j - 1][b] < 0 ? -1 : up_[j - 1][up_[j - 1][b]];
+  }
+
+  // Sum of z_B over the blossoms holding both u and v.
+  Wide shared_value(std::uint32_t u, std::uint32_t v) const {
+    std::int32_t b = innermost_[u];
+    if (b < 0 || innermost_[v] < 0) return 0;
+    const std::uint64_t pv = sol_.position[v];
+    auto holds = [&](std::int32_t k) {
+      return sol_.blossoms[k].begin <= pv && pv < sol_.blossoms[k].end;
+    };
+    if (!holds(b)) {
+      for (std::size_t j = up_.size(); j-- > 0;)
+        if (up_[j][b] >= 0 && !holds(up_[j][b])) b = up_[j][b];
+      b = up_[0][b];
+    }
+    return b < 0 ? Wide(0) : prefix_[b];
+  }
+
+ private:
+  const Solution& sol_;
+  std::vector<std::int32_t> innermost_;
+  std::vector<std::vector<std::int32_t>> up_;
+  std::vector<Wide> prefix_;
+};
 
 // The certificate check (docs/pairing.md): y >= 0, z >= 0 on odd sets, dual objective equal to
 // the matching's weight, and y_u + y_v + sum z_B (B holding u and v) >= 4 w_uv on every edge
@@ -297,17 +386,6 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
                               const std::vector<Edge>& edges, const std::stop_token& stop) {
   CheckResult r;
   const std::size_t n = nodes.size();
-  // Blossoms holding each node (a laminar family: a short chain per node).
-  std::vector<std::uint32_t> offset(n + 1, 0);
-  for (const auto& b : sol.blossoms)
-    for (std::uint32_t v : b.members) ++offset[v + 1];
-  for (std::size_t v = 0; v < n; ++v) offset[v + 1] += offset[v];
-  std::vector<std::uint32_t> member_of(offset[n]);
-  {
-    std::vector<std::uint32_t> fill(offset.begin(), offset.end() - 1);
-    for (std::size_t b = 0; b < sol.blossoms.size(); ++b)
-      for (std::uint32_t v : sol.blossoms[b].members) member_of[fill[v]++] = std::uint32_t(b);
-  }
   Wide dual = 0, primal = 0;
   for (std::size_t v = 0; v < n; ++v) {
     if (sol.potential[v] < 0 && r.problem.empty())
@@ -315,25 +393,22 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
     dual += sol.potential[v];
   }
   for (const auto& b : sol.blossoms) {
-    if ((b.value < 0 || b.members.size() % 2 == 0) && r.problem.empty())
+    const std::uint64_t size = b.end - b.begin;
+    if ((b.value < 0 || size % 2 == 0) && r.problem.empty())
       r.problem = "a blossom of the dual is not an odd set with a non-negative value";
-    dual += Wide(b.value) * std::int64_t(b.members.size() / 2);
+    dual += Wide(b.value) * std::int64_t(size / 2);
   }
   for (const Edge& e : edges)
     if (sol.mate[e.i] == std::int64_t(e.j)) primal += costing.big - e.cost;
   if (dual != primal * Matcher::dualScale && r.problem.empty())
     r.problem = "the dual objective differs from the matching's weight";
 
+  const BlossomForest forest(sol, n);
   const bool ok = for_each_tolerance_edge(
       nodes, grid, tol_ln, o.tolerance_pct,
       [&](std::uint32_t i, std::uint32_t j, double err) {
         const std::int64_t c = costing.cost(err);
-        Wide cover = Wide(sol.potential[i]) + sol.potential[j];
-        if (offset[i] != offset[i + 1] && offset[j] != offset[j + 1]) {
-          for (std::uint32_t p = offset[i]; p < offset[i + 1]; ++p)
-            for (std::uint32_t q = offset[j]; q < offset[j + 1]; ++q)
-              if (member_of[p] == member_of[q]) cover += sol.blossoms[member_of[p]].value;
-        }
+        const Wide cover = Wide(sol.potential[i]) + sol.potential[j] + forest.shared_value(i, j);
         if (cover < Wide(Matcher::dualScale) * (costing.big - c))
           r.violations.push_back({i, j, err, c});
       },
@@ -463,8 +538,10 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   const Nodes nodes = make_nodes(fit, fitted, o);
   const std::size_t n = nodes.size();
   const std::size_t total_work = 3 * n + 1;
+  std::size_t reported = 0;  // never goes back, though a repair round solves again
   auto report = [&](std::size_t done) {
-    if (progress) progress(std::min(done, total_work), total_work);
+    reported = std::max(reported, std::min(done, total_work));
+    if (progress) progress(reported, total_work);
   };
   auto cancelled = [&]() {
     Pairing c;
@@ -550,6 +627,8 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   Solution sol;
   sol.mate.assign(n, -1);
   sol.potential.assign(n, 0);
+  sol.position.assign(n, 0);
+  sol.has_position.assign(n, 0);
   std::vector<std::uint32_t> local(n);
   std::vector<std::uint32_t> touched(n);  // endpoints of edges added since the last solve
   std::iota(touched.begin(), touched.end(), 0u);
@@ -570,7 +649,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     std::vector<char> dirty(n, 0);
     for (std::uint32_t v : touched) dirty[sets.find(v)] = 1;
     std::erase_if(sol.blossoms,
-                  [&](const Solution::Blossom& b) { return dirty[sets.find(b.members[0])]; });
+                  [&](const Solution::Blossom& b) { return dirty[sets.find(b.some_member)]; });
 
     std::size_t components = 0, largest = 0, solved = 0;
     for (std::uint32_t root = 0; root < n; ++root) {
@@ -601,6 +680,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     for (const Edge& e : edges) keys.push_back(edge_key(e.i, e.j));
     std::sort(keys.begin(), keys.end());
     touched.clear();
+    std::vector<char> near_violation(n, 0);
     for (const Edge& e : check.violations) {
       if (std::binary_search(keys.begin(), keys.end(), edge_key(e.i, e.j))) {
         why_not = fmt::format(
@@ -608,12 +688,25 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
             nodes.unit[e.i], nodes.unit[e.j]);
         break;
       }
-      edges.push_back(e);
-      touched.push_back(e.i);
-      touched.push_back(e.j);
+      near_violation[e.i] = near_violation[e.j] = 1;
     }
     if (!why_not.empty()) break;
-    out.counts.repaired_edges += check.violations.size();
+    // Each round solves a whole component again, so add more than the violating pairs: every
+    // pair within tolerance at their units, which makes a further round rare.
+    const std::size_t before = edges.size();
+    if (!for_each_tolerance_edge(
+            nodes, grid, tol_ln, o.tolerance_pct,
+            [&](std::uint32_t i, std::uint32_t j, double err) {
+              if ((near_violation[i] || near_violation[j]) &&
+                  !std::binary_search(keys.begin(), keys.end(), edge_key(i, j))) {
+                edges.push_back({i, j, err, costing.cost(err)});
+                touched.push_back(i);
+                touched.push_back(j);
+              }
+            },
+            stop))
+      return cancelled();
+    out.counts.repaired_edges += edges.size() - before;
   }
   out.counts.rounds = std::min<std::size_t>(round + 1, std::size_t(o.max_repair_rounds));
   out.counts.matched_edges = edges.size();

@@ -17,13 +17,16 @@
 #include <fmt/format.h>
 #include <toml++/toml.h>
 
+#include <algorithm>
 #include <charconv>
+#include <cstdint>
 #include <fstream>
 #include <nlohmann/json.hpp>
 #include <set>
 #include <sstream>
 
 #include "photolot/acceptance.h"
+#include "photolot/units.h"
 
 namespace photolot {
 
@@ -40,9 +43,10 @@ std::string_view to_string(InspectionLevel level) {
 }
 
 std::optional<InspectionLevel> parse_inspection_level(std::string_view text) {
-  if (text == "I") return InspectionLevel::level_i;
-  if (text == "II") return InspectionLevel::level_ii;
-  if (text == "III") return InspectionLevel::level_iii;
+  // Roman numerals as the standard writes them; lower case accepted too.
+  if (text == "I" || text == "i") return InspectionLevel::level_i;
+  if (text == "II" || text == "ii") return InspectionLevel::level_ii;
+  if (text == "III" || text == "iii") return InspectionLevel::level_iii;
   return std::nullopt;
 }
 
@@ -108,33 +112,6 @@ std::string Spec::validate() const {
 
 namespace {
 
-// A resistance written as a number with an optional SI prefix and unit: "15k", "1.5 M",
-// "220kohm", "4.7 MΩ". Returns nullopt for anything else.
-std::optional<double> parse_ohm_text(std::string_view s) {
-  auto trim = [](std::string_view t) {
-    while (!t.empty() && (t.front() == ' ' || t.front() == '\t')) t.remove_prefix(1);
-    while (!t.empty() && (t.back() == ' ' || t.back() == '\t')) t.remove_suffix(1);
-    return t;
-  };
-  s = trim(s);
-  double value = 0;
-  const auto [end, ec] = std::from_chars(s.data(), s.data() + s.size(), value);
-  if (ec != std::errc{} || !std::isfinite(value)) return std::nullopt;
-  std::string_view rest = trim(s.substr(static_cast<std::size_t>(end - s.data())));
-  for (std::string_view unit : {"ohm", "Ohm", "\u03a9", "\u2126"}) {
-    if (rest.ends_with(unit)) {
-      rest = trim(rest.substr(0, rest.size() - unit.size()));
-      break;
-    }
-  }
-  if (rest.empty()) return value;
-  if (rest == "m") return value * 1e-3;
-  if (rest == "k" || rest == "K") return value * 1e3;
-  if (rest == "M") return value * 1e6;
-  if (rest == "G") return value * 1e9;
-  return std::nullopt;
-}
-
 class Reader {
  public:
   explicit Reader(std::string file) : file_(std::move(file)) {}
@@ -170,7 +147,7 @@ class Reader {
     }
     if (!node->is_table()) {
       error(node->source(),
-            fmt::format("'{}' must be a table ([{}]), found a {}", name, name, type_name(*node)));
+            fmt::format("'{}' must be a table ([{}]), found {}", name, name, type_name(*node)));
       return nullptr;
     }
     return node->as_table();
@@ -179,19 +156,19 @@ class Reader {
   static std::string_view type_name(const toml::node& node) {
     switch (node.type()) {
       case toml::node_type::string:
-        return "string";
+        return "a string";
       case toml::node_type::integer:
-        return "integer";
+        return "an integer";
       case toml::node_type::floating_point:
-        return "number";
+        return "a decimal number";
       case toml::node_type::boolean:
-        return "boolean";
+        return "a boolean";
       case toml::node_type::table:
-        return "table";
+        return "a table";
       case toml::node_type::array:
-        return "array";
+        return "an array";
       default:
-        return "date or time";
+        return "a date or time";
     }
   }
 
@@ -208,7 +185,7 @@ class Reader {
       return *v;
     }
     error(node->source(),
-          fmt::format("{}.{} must be a number, found a {}", table_name, key, type_name(*node)));
+          fmt::format("{}.{} must be a number, found {}", table_name, key, type_name(*node)));
     return kNaN;
   }
 
@@ -218,10 +195,10 @@ class Reader {
     if (node == nullptr) return kNaN;
     if (node->is_string()) {
       const std::string& text = node->as_string()->get();
-      if (auto v = parse_ohm_text(text)) return *v;
+      if (auto v = parse_resistance(text); v && std::isfinite(*v)) return *v;
       error(node->source(),
             fmt::format("{}.{} = \"{}\" is not a resistance (write ohm as a number, or with an SI "
-                        "prefix such as \"15k\" or \"1.5M\")",
+                        "prefix or letter code such as \"15k\", \"1.5M\" or \"4k7\")",
                         table_name, key, text));
       return kNaN;
     }
@@ -234,7 +211,7 @@ class Reader {
     if (node == nullptr) return std::nullopt;
     if (!node->is_string()) {
       error(node->source(),
-            fmt::format("{}.{} must be a string, found a {}", table_name, key, type_name(*node)));
+            fmt::format("{}.{} must be a string, found {}", table_name, key, type_name(*node)));
       return std::nullopt;
     }
     return node->as_string()->get();
@@ -245,7 +222,16 @@ class Reader {
     return node != nullptr ? node->source() : t.source();
   }
 
-  std::vector<SpecError> take() { return std::move(errors_); }
+  // In file order; errors about the whole file (line 0) last.
+  std::vector<SpecError> take() {
+    std::stable_sort(errors_.begin(), errors_.end(), [](const SpecError& a, const SpecError& b) {
+      const auto key = [](const SpecError& e) {
+        return std::pair{e.line == 0 ? UINT32_MAX : e.line, e.column};
+      };
+      return key(a) < key(b);
+    });
+    return std::move(errors_);
+  }
   bool any() const { return !errors_.empty(); }
 
  private:
@@ -328,7 +314,7 @@ void read_inspection(Reader& r, const toml::table& t, Spec& spec) {
   if (const toml::node* node = t.get("lot_size")) {
     auto v = node->value<std::int64_t>();
     if (!node->is_integer() || !v) {
-      r.error(node->source(), fmt::format("inspection.lot_size must be a whole number, found a {}",
+      r.error(node->source(), fmt::format("inspection.lot_size must be a whole number, found {}",
                                           Reader::type_name(*node)));
     } else if (*v < 1) {
       r.error(node->source(), fmt::format("inspection.lot_size = {} must be at least 1", *v));

@@ -58,7 +58,10 @@ double median_of(std::vector<double> v) {
 Summary summarize(std::span<const double> values, std::span<const double> fit_sd,
                   const StatisticsOptions& options) {
   Summary s;
-  std::vector<double> sorted(values.begin(), values.end());
+  std::vector<double> sorted;  // non-finite values are left out
+  sorted.reserve(values.size());
+  for (double x : values)
+    if (std::isfinite(x)) sorted.push_back(x);
   std::sort(sorted.begin(), sorted.end());
   s.n = sorted.size();
   if (s.n == 0) return s;

@@ -27,17 +27,19 @@ using boost::math::cdf;
 using boost::math::complement;
 using boost::math::quantile;
 
-// r with Phi(z + r) - Phi(z - r) = p, for z >= 0.
-double coverage_half_width(double z, double p) {
+// r with Phi(z + r) - Phi(z - r) = p, for z >= 0: Newton's method with bisection safeguard
+// (Boost.Math), derivative phi(z + r) + phi(z - r). The root lies in [zp, z + zp] with zp the
+// two-sided normal quantile: at r = zp the coverage is at most p (the interval is centred best
+// at z = 0), and Phi(2z + zp) - Phi(-zp) >= p.
+double coverage_half_width(double z, double p, double zp) {
   const boost::math::normal normal;
-  const double zp = quantile(normal, 0.5 * (1 + p));
-  auto f = [&](double r) { return cdf(normal, z + r) - cdf(normal, z - r) - p; };
-  // f(0) = -p < 0; f(z + zp) >= 0 (see the bound Phi(2z + zp) - Phi(-zp) >= p).
-  double lo = 0, hi = z + zp;
-  std::uintmax_t iterations = 200;
-  const auto [a, b] = boost::math::tools::toms748_solve(
-      f, lo, hi, boost::math::tools::eps_tolerance<double>(50), iterations);
-  return 0.5 * (a + b);
+  auto f = [&](double r) {
+    return std::pair{cdf(normal, z + r) - cdf(normal, z - r) - p,
+                     pdf(normal, z + r) + pdf(normal, z - r)};
+  };
+  std::uintmax_t iterations = 100;
+  return boost::math::tools::newton_raphson_iterate(f, std::sqrt(zp * zp + z * z), zp, z + zp, 40,
+                                                    iterations);
 }
 
 // The confidence that mean +- k s covers p of a normal population, from N values.
@@ -45,8 +47,9 @@ double exact_confidence(double k, std::size_t n, double p) {
   const double nu = static_cast<double>(n - 1);
   const double nd = static_cast<double>(n);
   const boost::math::chi_squared chi2(nu);
+  const double zp = quantile(boost::math::normal(), 0.5 * (1 + p));
   auto integrand = [&](double z) {
-    const double r = coverage_half_width(z, p);
+    const double r = coverage_half_width(z, p, zp);
     const double t = nu * r * r / (k * k);
     return cdf(complement(chi2, t)) * std::exp(-nd * z * z / 2);
   };

@@ -1,0 +1,107 @@
+// Pairing speed on whole reels: 1,000 / 10,000 / 100,000 power-law units spread like a batch
+// (ln R10 sd 0.15, gamma 0.75 sd 0.03; invented lots), default options (2 %, 1-1000 lx,
+// 16 candidates per unit, certificate checked on every pair within tolerance).
+// Targets (docs/performance.md, "Pairing"): 10,000 units under 1 s, 100,000 under 20 s,
+// peak memory under 1 GB, cost close to linear.
+#include <benchmark/benchmark.h>
+#include <sys/resource.h>
+
+#include <cmath>
+#include <cstdint>
+#include <string>
+
+#include "photolot/pairing.h"
+
+namespace {
+
+// A small portable generator (splitmix64 + Box-Muller): the same lot on every platform.
+struct Stream {
+  std::uint64_t s;
+  double uniform() {
+    std::uint64_t z = (s += 0x9E3779B97F4A7C15ull);
+    z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9ull;
+    z = (z ^ (z >> 27)) * 0x94D049BB133111EBull;
+    return double((z ^ (z >> 31)) >> 11) * 0x1.0p-53;
+  }
+  double normal() {
+    const double u = 1.0 - uniform(), v = uniform();
+    return std::sqrt(-2.0 * std::log(u)) * std::cos(6.283185307179586 * v);
+  }
+};
+
+photolot::LotFit make_lot(std::size_t n) {
+  Stream rng{12345};
+  photolot::LotFit fit;
+  fit.units.resize(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    auto& u = fit.units[i];
+    u.id = "U" + std::to_string(i + 1);
+    u.status = photolot::FitStatus::fitted;
+    const double ln_r10 = std::log(20e3) + 0.15 * rng.normal();
+    const double gamma = 0.75 + 0.03 * rng.normal();
+    u.curve = photolot::make_power_law(std::exp(ln_r10), gamma, {1e-4, 0, 0, 1e-5});
+  }
+  return fit;
+}
+
+double peak_rss_mb() {
+  rusage r{};
+  getrusage(RUSAGE_SELF, &r);
+  return double(r.ru_maxrss) / 1024.0;  // ru_maxrss is in KiB on Linux
+}
+
+void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct) {
+  const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
+  photolot::PairOptions o;
+  o.mode = mode;
+  o.tolerance_pct = tolerance_pct;
+  photolot::Pairing p;
+  for (auto _ : state) {
+    p = photolot::pair_units(fit, o);
+    benchmark::DoNotOptimize(p.pairs.data());
+  }
+  state.counters["pairs"] = double(p.pairs.size());
+  state.counters["tolerance_edges"] = double(p.counts.tolerance_edges);
+  state.counters["matched_edges"] = double(p.counts.matched_edges);
+  state.counters["largest_component"] = double(p.counts.largest_component);
+  state.counters["rounds"] = double(p.counts.rounds);
+  state.counters["repaired"] = double(p.counts.repaired_edges);
+  state.counters["proved"] = p.proof == photolot::ProofStatus::proved_optimal ? 1 : 0;
+  state.counters["peak_rss_MB"] = peak_rss_mb();
+  state.SetComplexityN(state.range(0));
+}
+
+void BM_PairAbsolute2pct(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0);
+}
+void BM_PairAbsolute3pct(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 3.0);
+}
+void BM_PairTrimmable05pct(benchmark::State& state) {
+  run(state, photolot::TrackingMode::trimmable, 0.5);
+}
+
+}  // namespace
+
+BENCHMARK(BM_PairAbsolute2pct)
+    ->Arg(1000)
+    ->Arg(10000)
+    ->Arg(100000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime()
+    ->Complexity();
+BENCHMARK(BM_PairAbsolute3pct)
+    ->Arg(1000)
+    ->Arg(10000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+BENCHMARK(BM_PairTrimmable05pct)
+    ->Arg(1000)
+    ->Arg(10000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+
+BENCHMARK_MAIN();
