@@ -5,12 +5,11 @@
 // AnalyzeConfig, add its option group (option_groups.h) in add_analyze_command, run it after
 // the fit in run_analyze, put its section in doc.sections["<key>"] and print its lines after
 // the lot's counts.
+#include <fmt/format.h>
 #include <unistd.h>
 
 #include <atomic>
 #include <cstdio>
-
-#include <fmt/format.h>
 
 #include "commands.h"
 #include "exit_codes.h"
@@ -24,10 +23,10 @@ CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config) {
   CLI::App* cmd = app.add_subcommand(
       "analyze", "Import bench logs, fit each unit's R(E) = R10 (E/10 lx)^-gamma, print a table");
   cmd->add_option("FILE", config.files, "Bench logs (CSV); units in several files are merged")
-      ->required();  // a missing file is an input error (exit 1) reported by import, not a usage error
+      ->required();  // a missing file is an input error (exit 1) reported by import, not a usage
+                     // error
   const char* out = "Output";
-  cmd->add_option("--json", config.json_path, "Write the results document (JSON) here")
-      ->group(out);
+  cmd->add_option("--json", config.json_path, "Write the results document (JSON) here")->group(out);
   cmd->add_option("--units-csv", config.units_csv_path, "Write the unit table (CSV) here")
       ->group(out);
   cmd->add_flag("--residuals", config.with_residuals,
@@ -115,7 +114,8 @@ int run_analyze(AnalyzeConfig& config) {
   if (!config.quiet) text += unit_table(fit.units, style) + "\n";
   text += lot_summary(lot, fit);
   if (!config.json_path.empty()) text += fmt::format("results document: {}\n", config.json_path);
-  if (!config.units_csv_path.empty()) text += fmt::format("unit table: {}\n", config.units_csv_path);
+  if (!config.units_csv_path.empty())
+    text += fmt::format("unit table: {}\n", config.units_csv_path);
   print_out(text);
   return kExitDone;
 }

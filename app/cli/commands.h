@@ -2,11 +2,10 @@
 // adds the command to the program, and a run function returning the exit code (exit_codes.h).
 #pragma once
 
+#include <CLI/CLI.hpp>
 #include <cstddef>
 #include <string>
 #include <vector>
-
-#include <CLI/CLI.hpp>
 
 #include "option_groups.h"
 #include "photolot/synth.h"
@@ -18,12 +17,12 @@ struct AnalyzeConfig {
   ImportArgs import;
   fitting::FitOptions fit;
 
-  std::string json_path;       // --json
-  std::string units_csv_path;  // --units-csv
-  bool with_residuals = false; // --residuals
-  std::string lot_name;        // --lot-name (default: import's, the first file's stem)
-  bool quiet = false;          // --quiet: counts only, no table
-  bool ascii = false;          // --ascii
+  std::string json_path;        // --json
+  std::string units_csv_path;   // --units-csv
+  bool with_residuals = false;  // --residuals
+  std::string lot_name;         // --lot-name (default: import's, the first file's stem)
+  bool quiet = false;           // --quiet: counts only, no table
+  bool ascii = false;           // --ascii
   std::size_t max_messages = 20;
 };
 CLI::App* add_analyze_command(CLI::App& app, AnalyzeConfig& config);

@@ -8,7 +8,9 @@
 namespace photolot::cli {
 
 namespace {
-results::Json char_json(char c) { return c ? results::Json(std::string(1, c)) : results::Json(nullptr); }
+results::Json char_json(char c) {
+  return c ? results::Json(std::string(1, c)) : results::Json(nullptr);
+}
 results::Json text_or_null(const std::string& s) {
   return s.empty() ? results::Json(nullptr) : results::Json(s);
 }
@@ -19,12 +21,14 @@ void add_import_options(CLI::App& command, ImportArgs& args) {
   command.add_option("--delimiter", args.delimiter, "Field separator")
       ->check(CLI::IsMember({"comma", "semicolon", "tab"}))
       ->group(group);
-  command.add_option("--decimal", args.decimal,
-                     "Decimal mark (default: comma when the delimiter is ';', else point)")
+  command
+      .add_option("--decimal", args.decimal,
+                  "Decimal mark (default: comma when the delimiter is ';', else point)")
       ->check(CLI::IsMember({"point", "comma"}))
       ->group(group);
   auto& o = args.options;
-  command.add_option("--id-column", o.id_column, "Unit id column, by header name or 1-based number")
+  command
+      .add_option("--id-column", o.id_column, "Unit id column, by header name or 1-based number")
       ->group(group);
   command.add_option("--lux-column", o.lux_column, "Illuminance column")->group(group);
   command.add_option("--ohm-column", o.ohm_column, "Resistance column")->group(group);
@@ -32,12 +36,14 @@ void add_import_options(CLI::App& command, ImportArgs& args) {
   command.add_option("--lux-unit", o.lux_unit, "Illuminance unit: lx or fc")->group(group);
   command.add_option("--ohm-unit", o.ohm_unit, "Resistance unit: ohm, kohm or Mohm")->group(group);
   command.add_option("--temp-unit", o.temp_unit, "Temperature unit: degC or K")->group(group);
-  command.add_option("--overload", args.overload,
-                     "Meter's upper range for over-range readings logged without a value "
-                     "(ohm; SI prefix allowed, e.g. 20M)")
+  command
+      .add_option("--overload", args.overload,
+                  "Meter's upper range for over-range readings logged without a value "
+                  "(ohm; SI prefix allowed, e.g. 20M)")
       ->group(group);
-  command.add_option("--unit-id", o.default_unit_id,
-                     "Unit id for a log of a single unit that has no id column")
+  command
+      .add_option("--unit-id", o.default_unit_id,
+                  "Unit id for a log of a single unit that has no id column")
       ->group(group);
 }
 
@@ -76,7 +82,8 @@ results::Json import_options_json(const ImportOptions& o) {
 void add_fit_options(CLI::App& command, fitting::FitOptions& o) {
   const char* group = "Fitting each unit's curve";
   // CLI11 stores the name; the callback sets the enum (a bad name is a usage error).
-  command.add_option_function<std::string>(
+  command
+      .add_option_function<std::string>(
           "--loss",
           [&o](const std::string& name) {
             for (auto loss : {fitting::Loss::huber, fitting::Loss::cauchy, fitting::Loss::none})
@@ -85,22 +92,25 @@ void add_fit_options(CLI::App& command, fitting::FitOptions& o) {
           "Robust loss: huber, cauchy or none (least squares); default huber")
       ->check(CLI::IsMember({"huber", "cauchy", "none"}))
       ->group(group);
-  command.add_option("--meter-accuracy", o.meter_accuracy_pct,
-                     "Resistance meter accuracy, percent of reading (sets the loss scale)")
+  command
+      .add_option("--meter-accuracy", o.meter_accuracy_pct,
+                  "Resistance meter accuracy, percent of reading (sets the loss scale)")
       ->capture_default_str()
       ->group(group);
-  command.add_option("--outlier-threshold", o.outlier_threshold,
-                     "Flag a point beyond this many loss scales as an outlier")
+  command
+      .add_option("--outlier-threshold", o.outlier_threshold,
+                  "Flag a point beyond this many loss scales as an outlier")
       ->capture_default_str()
       ->group(group);
   command.add_option("--min-levels", o.min_levels, "Distinct illuminance levels a fit needs")
       ->capture_default_str()
       ->group(group);
-  command.add_option("--min-span", o.min_span_decades,
-                     "Decades of illuminance the levels must span")
+  command
+      .add_option("--min-span", o.min_span_decades, "Decades of illuminance the levels must span")
       ->capture_default_str()
       ->group(group);
-  command.add_option("--threads", o.threads, "Worker threads (0: all cores); results do not change")
+  command
+      .add_option("--threads", o.threads, "Worker threads (0: all cores); results do not change")
       ->capture_default_str()
       ->group(group);
 }

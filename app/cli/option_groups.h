@@ -4,9 +4,8 @@
 // its own pair here and calls them from analyze.cpp.
 #pragma once
 
-#include <string>
-
 #include <CLI/CLI.hpp>
+#include <string>
 
 #include "photolot/fitting/fit.h"
 #include "photolot/import.h"

@@ -1,9 +1,9 @@
 // photolot-cli simulate: a synthetic lot with known truth written as a bench log, so the
 // sample data and the benchmark lots can be made again from the command line.
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <cmath>
-
-#include <fmt/format.h>
 
 #include "commands.h"
 #include "exit_codes.h"
@@ -18,8 +18,7 @@ CLI::App* add_simulate_command(CLI::App& app, SimulateConfig& c) {
       "simulate", "Write a synthetic lot with known truth as a bench log (invented data)");
   auto& s = c.spec;
   cmd->add_option("--out", c.out_path, "The bench log to write (CSV)")->required();
-  cmd->add_option("--truth", c.truth_path,
-                  "Also write each unit's true R10 and gamma here (CSV)");
+  cmd->add_option("--truth", c.truth_path, "Also write each unit's true R10 and gamma here (CSV)");
   cmd->add_option("--units", s.units, "Number of units")->capture_default_str();
   cmd->add_option("--seed", s.seed, "Random seed; the same seed gives the same file")
       ->capture_default_str();
@@ -75,7 +74,9 @@ CLI::App* add_simulate_command(CLI::App& app, SimulateConfig& c) {
   cmd->add_option("--dark-median", c.dark_median, "Median dark resistance, ohm")
       ->capture_default_str()
       ->group(bench);
-  cmd->add_option("--temp", s.temp_c, "Bench temperature, degC")->capture_default_str()->group(bench);
+  cmd->add_option("--temp", s.temp_c, "Bench temperature, degC")
+      ->capture_default_str()
+      ->group(bench);
   cmd->add_option("--temp-span", s.temp_span_c,
                   "Readings spread uniformly over temp +- span/2, degC")
       ->capture_default_str()
@@ -113,7 +114,8 @@ std::string check_spec(SimulateConfig& c) {
   if (!(s.outlier_fraction >= 0 && s.outlier_fraction <= 1))
     return fmt::format("--outliers = {} must lie between 0 and 1", s.outlier_fraction);
   if (!(s.noise_pct >= 0)) return fmt::format("--noise = {} must not be negative", s.noise_pct);
-  if (!(s.ln_r10_sd >= 0)) return fmt::format("--r10-spread = {} must not be negative", s.ln_r10_sd);
+  if (!(s.ln_r10_sd >= 0))
+    return fmt::format("--r10-spread = {} must not be negative", s.ln_r10_sd);
   if (!(s.gamma_sd >= 0)) return fmt::format("--gamma-sd = {} must not be negative", s.gamma_sd);
   if (!(s.rho >= -1 && s.rho <= 1)) return fmt::format("--rho = {} must lie in [-1, 1]", s.rho);
   if (!(s.temp_span_c >= 0))
@@ -166,7 +168,8 @@ int run_simulate(SimulateConfig& c) {
   std::vector<std::pair<std::string, std::string>> outputs;
   if (!c.session2_path.empty()) {
     Lot second = split_second_session(sim.lot, c.session2_levels, c.session2_units);
-    auto other = dialect == synth::Dialect::comma ? synth::Dialect::semicolon : synth::Dialect::comma;
+    auto other =
+        dialect == synth::Dialect::comma ? synth::Dialect::semicolon : synth::Dialect::comma;
     outputs.emplace_back(c.session2_path, synth::to_csv(second, other));
   }
   outputs.emplace(outputs.begin(), c.out_path, synth::to_csv(sim.lot, dialect));

@@ -1,6 +1,8 @@
 // Text output of photolot-cli.
 #include "table.h"
 
+#include <fmt/format.h>
+
 #include <algorithm>
 #include <array>
 #include <cctype>
@@ -8,14 +10,12 @@
 #include <cstdlib>
 #include <map>
 
-#include <fmt/format.h>
-
 namespace photolot::cli {
 namespace {
 
 struct Scaled {
-  double value;          // in units of the prefix
-  const char* prefix;    // "", "k", "M", ...
+  double value;        // in units of the prefix
+  const char* prefix;  // "", "k", "M", ...
   double factor;
 };
 
@@ -100,7 +100,7 @@ std::string unit_table(const std::vector<UnitFit>& units, const TextStyle& style
     std::array<std::string, 8> cells;
   };
   // Columns: id, points, R10, R10 interval, gamma, gamma interval, RMS, flags.
-  std::array<std::string, 8> header{"unit",   "pts", "R10",   "R10 95% CI",
+  std::array<std::string, 8> header{"unit",  "pts",          "R10",   "R10 95% CI",
                                     "gamma", "gamma 95% CI", "rms %", "flags"};
   std::vector<Row> rows;
   rows.reserve(units.size());
@@ -122,8 +122,8 @@ std::string unit_table(const std::vector<UnitFit>& units, const TextStyle& style
       r.cells[7] = flags;
     } else {
       for (int c = 2; c <= 6; ++c) r.cells[c] = "-";
-      r.cells[7] = "not fitted: " + std::string(to_string(u.status)) +
-                   (flags.empty() ? "" : " " + flags);
+      r.cells[7] =
+          "not fitted: " + std::string(to_string(u.status)) + (flags.empty() ? "" : " " + flags);
     }
     rows.push_back(std::move(r));
   }
@@ -162,7 +162,8 @@ std::string lot_summary(const Lot& lot, const LotFit& fit) {
   std::string not_fitted = fmt::format("{} not fitted", fit.units.size() - fitted);
   if (!reasons.empty()) {
     std::string list;
-    for (const auto& [why, n] : reasons) list += fmt::format("{}{} {}", list.empty() ? "" : ", ", why, n);
+    for (const auto& [why, n] : reasons)
+      list += fmt::format("{}{} {}", list.empty() ? "" : ", ", why, n);
     not_fitted += " (" + list + ")";
   }
   std::size_t readings = 0;

@@ -25,10 +25,9 @@ std::string describe(const FitOptions& o) {
       break;
   }
   return fmt::format(
-      "power law ln R = ln R10 - gamma ln(E / 10 lx) per unit; {}; covariance {}; {:g} % "
-      "intervals from Student t on n - 2 dof{}",
-      loss, o.loss == Loss::none ? "s^2 (X'X)^-1" : "Huber's H1 estimate from psi",
-      100.0 * o.confidence,
+      "power law ln R = ln R10 - gamma ln(E / 10 lx) per unit; {}; {:g} % intervals from "
+      "Student t on n - 2 dof{}",
+      loss, 100.0 * o.confidence,
       o.over_range_bounds ? "; units with over-range readings: extended fit, the readings as "
                             "one-sided terms (docs/models.md)"
                           : "");
@@ -38,9 +37,8 @@ LotFit fit_lot(const Lot& lot, const FitOptions& options, const ProgressFn& prog
                std::stop_token stop) {
   LotFit out = detail::start_lot_fit(lot);
   out.method = describe(options);
-  detail::for_each_index(lot.units.size(), options.threads, progress, stop, [&](std::size_t i) {
-    out.units[i] = fit_unit(lot.units[i], options);
-  });
+  detail::for_each_index(lot.units.size(), options.threads, progress, stop,
+                         [&](std::size_t i) { out.units[i] = fit_unit(lot.units[i], options); });
   return out;
 }
 

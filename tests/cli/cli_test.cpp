@@ -9,11 +9,10 @@
 #include <cmath>
 #include <fstream>
 #include <iterator>
+#include <nlohmann/json.hpp>
 #include <regex>
 #include <set>
 #include <sstream>
-
-#include <nlohmann/json.hpp>
 
 #include "test_support.h"
 
@@ -82,7 +81,8 @@ TEST(Cli, ExitsWithTwoOnABadOptionOrNoCommand) {
   EXPECT_EQ(run_cli({}, dir).code, 2);
   EXPECT_EQ(run_cli({"analyze"}, dir).code, 2);  // no file
   EXPECT_EQ(run_cli({"analyze", "--loss", "square", sample("demo-lot.csv")}, dir).code, 2);
-  CliRun bad = run_cli({"analyze", "--meter-accuracy", "-1", sample("demo-lot.csv"), "--json", "x.json"}, dir);
+  CliRun bad = run_cli(
+      {"analyze", "--meter-accuracy", "-1", sample("demo-lot.csv"), "--json", "x.json"}, dir);
   EXPECT_EQ(bad.code, 2);
   EXPECT_NE(bad.err.find("meter_accuracy_pct"), std::string::npos) << bad.err;
   EXPECT_FALSE(fs::exists(dir / "x.json"));
@@ -100,8 +100,8 @@ TEST(Cli, ShowsHelpWithExitCodeZero) {
 // even when the other files are good.
 void expect_input_error(const fs::path& dir, const std::string& bad_file) {
   CliRun r = run_cli({"analyze", sample("demo-lot.csv"), bad_file, "--json", "out.json",
-                   "--units-csv", "units.csv"},
-                  dir);
+                      "--units-csv", "units.csv"},
+                     dir);
   EXPECT_EQ(r.code, 1) << r.err;
   EXPECT_NE(r.err.find(fs::path(bad_file).filename().string()), std::string::npos) << r.err;
   EXPECT_FALSE(fs::exists(dir / "out.json"));
@@ -126,9 +126,8 @@ TEST(Cli, ExitsWithOneOnABinaryFileAndWritesNothing) {
 
 TEST(Cli, AnalysesTheSampleLot) {
   auto dir = test::scratch_dir();
-  CliRun r = run_cli({"analyze", sample("demo-lot.csv"), "--json", "out.json", "--units-csv",
-                   "units.csv"},
-                  dir);
+  CliRun r = run_cli(
+      {"analyze", sample("demo-lot.csv"), "--json", "out.json", "--units-csv", "units.csv"}, dir);
   ASSERT_EQ(r.code, 0) << r.err;
   auto ids = first_column(sample("demo-lot.csv"), ',');
   Json j = Json::parse(slurp(dir / "out.json"));
@@ -148,9 +147,9 @@ TEST(Cli, AnalysesTheSampleLot) {
 TEST(Cli, MergesTheSecondSessionIntoTheSameUnits) {
   auto dir = test::scratch_dir();
   CliRun one = run_cli({"analyze", sample("demo-lot.csv"), "--json", "one.json"}, dir);
-  CliRun both = run_cli({"analyze", sample("demo-lot.csv"), sample("demo-lot-session2.csv"),
-                      "--json", "both.json"},
-                     dir);
+  CliRun both = run_cli(
+      {"analyze", sample("demo-lot.csv"), sample("demo-lot-session2.csv"), "--json", "both.json"},
+      dir);
   ASSERT_EQ(both.code, 0) << both.err;
   Json a = Json::parse(slurp(dir / "one.json")), b = Json::parse(slurp(dir / "both.json"));
   EXPECT_EQ(a["units"].size(), b["units"].size());  // the session's units are already in the lot
@@ -174,8 +173,7 @@ TEST(Cli, ReportsSkippedRowsWithFileLineAndColumn) {
   auto path = test::write_scratch_file("bench.csv", log);
   CliRun r = run_cli({"analyze", path.string(), "--json", "out.json"}, dir);
   EXPECT_EQ(r.code, 0) << r.err;  // a bad row never sinks the lot
-  EXPECT_TRUE(std::regex_search(r.err, std::regex("bench\\.csv:6:[1-9][0-9]*: ")))
-      << r.err;
+  EXPECT_TRUE(std::regex_search(r.err, std::regex("bench\\.csv:6:[1-9][0-9]*: "))) << r.err;
   Json j = Json::parse(slurp(dir / "out.json"));
   EXPECT_EQ(j["import"]["rows_skipped"], 1);
   EXPECT_EQ(j["units"].size(), 2u);
@@ -194,7 +192,8 @@ TEST(Cli, CapsTheMessagesShownAndSaysHowManyMore) {
   EXPECT_EQ(r.code, 0);
   std::size_t placed = 0;
   std::istringstream lines(r.err);
-  for (std::string line; std::getline(lines, line);) placed += line.rfind(path.string() + ":", 0) == 0;
+  for (std::string line; std::getline(lines, line);)
+    placed += line.rfind(path.string() + ":", 0) == 0;
   EXPECT_EQ(placed, 5u) << r.err;
   EXPECT_NE(r.err.find("and 25 more"), std::string::npos) << r.err;
 }
@@ -205,8 +204,8 @@ TEST(Cli, RecoversTheKnownTruthOfASimulatedLot) {
   // 0.003), and the 95 % intervals should hold the truth for about 95 % of the units.
   auto dir = test::scratch_dir();
   CliRun sim = run_cli({"simulate", "--units", "40", "--seed", "11", "--noise", "0.5", "--out",
-                     "lot.csv", "--truth", "truth.csv"},
-                    dir);
+                        "lot.csv", "--truth", "truth.csv"},
+                       dir);
   ASSERT_EQ(sim.code, 0) << sim.err;
   CliRun r = run_cli({"analyze", "lot.csv", "--json", "out.json", "--quiet"}, dir);
   ASSERT_EQ(r.code, 0) << r.err;
@@ -268,6 +267,13 @@ TEST(Cli, MatchesGslLeastSquaresWithoutARobustLoss) {
   EXPECT_NEAR(u["gamma_ci95"][0].get<double>(), -c1 - half, 1e-7);
   EXPECT_NEAR(u["gamma_ci95"][1].get<double>(), -c1 + half, 1e-7);
   EXPECT_NEAR(u["rms_log_residual"].get<double>(), std::sqrt(sumsq / n), 1e-9);
+  // The table shows R10 with an engineering prefix, three significant digits (here tens of
+  // kilohms: one decimal); --ascii spells the unit "kohm".
+  CliRun ascii = run_cli({"analyze", path.string(), "--ascii", "--loss", "none"}, dir);
+  char expected[32];
+  std::snprintf(expected, sizeof expected, "%.1f kohm", std::exp(c0) / 1000);
+  EXPECT_NE(ascii.out.find(expected), std::string::npos) << expected << "\n" << ascii.out;
+  EXPECT_EQ(ascii.out.find("\xce\xa9"), std::string::npos);  // no "Ω" (U+03A9) in ASCII mode
   // R10's interval is exp(intercept +- t * se(intercept)).
   const double half0 = t * std::sqrt(cov00);
   EXPECT_NEAR(u["r10_ci95_ohm"][0].get<double>() / std::exp(c0 - half0), 1.0, 1e-7);
@@ -276,8 +282,12 @@ TEST(Cli, MatchesGslLeastSquaresWithoutARobustLoss) {
 
 TEST(Cli, WritesTheSameBytesWhateverTheThreadCount) {
   auto dir = test::scratch_dir();
-  ASSERT_EQ(run_cli({"analyze", sample("demo-lot.csv"), "--threads", "1", "--json", "a.json"}, dir).code, 0);
-  ASSERT_EQ(run_cli({"analyze", sample("demo-lot.csv"), "--threads", "2", "--json", "b.json"}, dir).code, 0);
+  ASSERT_EQ(
+      run_cli({"analyze", sample("demo-lot.csv"), "--threads", "1", "--json", "a.json"}, dir).code,
+      0);
+  ASSERT_EQ(
+      run_cli({"analyze", sample("demo-lot.csv"), "--threads", "2", "--json", "b.json"}, dir).code,
+      0);
   ASSERT_EQ(run_cli({"analyze", sample("demo-lot.csv"), "--json", "c.json"}, dir).code, 0);
   std::string a = slurp(dir / "a.json");
   EXPECT_FALSE(a.empty());
@@ -299,11 +309,33 @@ TEST(Cli, RemakesTheSampleDataFromItsStatedCommand) {
   // sample-data/README.md states the command that made the demo lot; running it again must
   // give the same bytes, or the README is wrong.
   auto dir = test::scratch_dir();
-  CliRun r = run_cli({"simulate", "--units", "60", "--seed", "2026", "--dark", "--dark-median", "3M",
-                   "--censor-above", "5M", "--outliers", "0.004", "--temp", "23.5",
-                   "--temp-span", "1.5", "--session2-levels", "3,30,300", "--session2-units",
-                   "12", "--session2-out", "s2.csv", "--out", "lot.csv", "--truth", "truth.csv"},
-                  dir);
+  CliRun r = run_cli({"simulate",
+                      "--units",
+                      "60",
+                      "--seed",
+                      "2026",
+                      "--dark",
+                      "--dark-median",
+                      "3M",
+                      "--censor-above",
+                      "5M",
+                      "--outliers",
+                      "0.004",
+                      "--temp",
+                      "23.5",
+                      "--temp-span",
+                      "1.5",
+                      "--session2-levels",
+                      "3,30,300",
+                      "--session2-units",
+                      "12",
+                      "--session2-out",
+                      "s2.csv",
+                      "--out",
+                      "lot.csv",
+                      "--truth",
+                      "truth.csv"},
+                     dir);
   ASSERT_EQ(r.code, 0) << r.err;
   EXPECT_EQ(slurp(dir / "lot.csv"), slurp(sample("demo-lot.csv")));
   EXPECT_EQ(slurp(dir / "s2.csv"), slurp(sample("demo-lot-session2.csv")));

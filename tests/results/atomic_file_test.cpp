@@ -22,8 +22,8 @@ std::string slurp(const std::filesystem::path& p) {
 }
 
 std::size_t entries(const std::filesystem::path& dir) {
-  return static_cast<std::size_t>(
-      std::distance(std::filesystem::directory_iterator(dir), std::filesystem::directory_iterator{}));
+  return static_cast<std::size_t>(std::distance(std::filesystem::directory_iterator(dir),
+                                                std::filesystem::directory_iterator{}));
 }
 
 TEST(AtomicFile, CreatesANewFileWithTheContent) {

@@ -119,7 +119,7 @@ TEST(ResultsJson, DocumentsEveryKeyItWrites) {
   for (const auto& key : documented_keys()) documented.insert(key.path);
   // Walk the written document (options are free-form per step, so stop there).
   std::function<void(const Json&, const std::string&)> walk = [&](const Json& v,
-                                                                   const std::string& path) {
+                                                                  const std::string& path) {
     if (path == "inputs.options" || path == "fit.not_fitted") return;
     if (v.is_object()) {
       for (const auto& [k, child] : v.items()) {

@@ -13,8 +13,9 @@
 namespace photolot {
 
 struct WriteError {
-  std::string path;     // the target, as given
-  std::string message;  // what failed, e.g. "cannot create a temporary file in 'out': Permission denied"
+  std::string path;  // the target, as given
+  std::string
+      message;  // what failed, e.g. "cannot create a temporary file in 'out': Permission denied"
 };
 
 // Writes `content` to `target` atomically. nullopt on success. A new file gets the usual

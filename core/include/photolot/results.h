@@ -12,12 +12,11 @@
 #pragma once
 
 #include <cstdint>
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
-
-#include <nlohmann/json.hpp>
 
 #include "photolot/fit_result.h"
 #include "photolot/lot.h"
@@ -34,9 +33,9 @@ std::uint64_t fnv1a64(std::string_view bytes);
 std::string fnv1a64_hex(std::string_view bytes);  // 16 lower-case hex digits
 
 struct InputFile {
-  std::string path;             // as given by the user
+  std::string path;  // as given by the user
   std::uint64_t size_bytes = 0;
-  std::string fnv1a64;          // fnv1a64_hex of the content
+  std::string fnv1a64;  // fnv1a64_hex of the content
 };
 
 // Describes a file on disk (size and hash); nullopt when it cannot be read.
@@ -50,9 +49,9 @@ struct ResultsDocument {
   std::vector<InputFile> files;
   Json options = Json::object();
 
-  ImportCounts import_counts;   // "import"
-  std::string fit_method;       // "fit": {"method": ...}
-  LotTemperature temperature;   // "fit": {"temperature": {...}}
+  ImportCounts import_counts;  // "import"
+  std::string fit_method;      // "fit": {"method": ...}
+  LotTemperature temperature;  // "fit": {"temperature": {...}}
 
   std::vector<UnitFit> units;   // "units"
   bool with_residuals = false;  // write each unit's per-point residuals ("residuals": [...])

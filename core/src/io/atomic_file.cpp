@@ -3,14 +3,13 @@
 #include "photolot/atomic_file.h"
 
 #include <fcntl.h>
+#include <fmt/format.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
 #include <atomic>
 #include <cerrno>
 #include <cstring>
-
-#include <fmt/format.h>
 
 namespace photolot {
 namespace {

@@ -2,9 +2,9 @@
 // FNV-1a: hash = offset basis; for each byte: hash ^= byte; hash *= prime (mod 2^64), with
 // offset basis 14695981039346656037 and prime 1099511628211 (Fowler, Noll and Vo, as in the
 // IETF draft "The FNV Non-Cryptographic Hash Algorithm"). A fingerprint, not a security hash.
-#include <fstream>
-
 #include <fmt/format.h>
+
+#include <fstream>
 
 #include "photolot/results.h"
 

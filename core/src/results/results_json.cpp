@@ -1,10 +1,10 @@
 // The results document as JSON: writing (deterministic bytes) and reading back.
 // docs/results-format.md lists every key; keep the two in step.
+#include <fmt/format.h>
+
 #include <cmath>
 #include <iterator>
 #include <map>
-
-#include <fmt/format.h>
 
 #include "photolot/results.h"
 
@@ -257,8 +257,14 @@ namespace {
 class LineWriter {
  public:
   explicit LineWriter(fmt::memory_buffer& out) : out_(out) {}
-  void open() { out_.push_back('{'); first_ = true; }
-  void close() { out_.push_back('}'); first_ = false; }
+  void open() {
+    out_.push_back('{');
+    first_ = true;
+  }
+  void close() {
+    out_.push_back('}');
+    first_ = false;
+  }
   void key(std::string_view k) {
     if (!first_) out_.push_back(',');
     first_ = false;
@@ -307,9 +313,18 @@ class LineWriter {
   void pair(const std::array<double, 2>& v) {
     array(v, [this](double x) { number(x); });
   }
-  void num(std::string_view k, double v) { key(k); number(v); }
-  void count(std::string_view k, long long v) { key(k); integer(v); }
-  void str(std::string_view k, std::string_view v) { key(k); text(v); }
+  void num(std::string_view k, double v) {
+    key(k);
+    number(v);
+  }
+  void count(std::string_view k, long long v) {
+    key(k);
+    integer(v);
+  }
+  void str(std::string_view k, std::string_view v) {
+    key(k);
+    text(v);
+  }
 
  private:
   fmt::memory_buffer& out_;
@@ -486,8 +501,8 @@ ReadResult from_json(const Json& j) {
     Reader r("");
     if (!j.is_object()) throw SchemaError{"the document is not a JSON object"};
     if (r.str(j, "format") != kFormatName)
-      throw SchemaError{fmt::format("format: expected \"{}\", not a photolot results document",
-                                    kFormatName)};
+      throw SchemaError{
+          fmt::format("format: expected \"{}\", not a photolot results document", kFormatName)};
     const Json& version = r.member(j, "version");
     if (!version.is_number_integer()) throw r.at("version").wrong("a whole number");
     if (version.get<std::int64_t>() > kFormatVersion)
@@ -548,11 +563,10 @@ ReadResult from_json(const Json& j) {
       doc.diagnostics.push_back(Diagnostic{
           rd.str(d, "file"), rd.count<std::uint32_t>(d, "line"),
           rd.count<std::uint32_t>(d, "column"),
-          parse_enum(rd.at("severity"), rd.str(d, "severity"), kSeverities),
-          rd.str(d, "message")});
+          parse_enum(rd.at("severity"), rd.str(d, "severity"), kSeverities), rd.str(d, "message")});
     }
 
-    static const char* const kCore[] = {"format", "version", "generator", "lot_name", "inputs",
+    static const char* const kCore[] = {"format", "version", "generator", "lot_name",   "inputs",
                                         "import", "fit",     "units",     "diagnostics"};
     for (const auto& [key, value] : j.items()) {
       bool core = false;

@@ -1,7 +1,7 @@
 // The unit table (CSV): the per-unit fields of the results document, one row per unit.
-#include <cmath>
-
 #include <fmt/format.h>
+
+#include <cmath>
 
 #include "photolot/results.h"
 
@@ -34,12 +34,26 @@ std::string csv_number_cell(double value) {
 
 namespace {
 
-constexpr std::string_view kColumns[] = {
-    "id",           "status",           "message",         "model",
-    "points",       "levels",           "outlier_points",  "censored_points",
-    "dark_readings", "r10_ohm",         "r10_ci95_lo_ohm", "r10_ci95_hi_ohm",
-    "gamma",        "gamma_ci95_lo",    "gamma_ci95_hi",   "gamma_10_100",
-    "rms_log_residual", "dark_conductance_s", "temp_coeff_pct_per_c", "flags"};
+constexpr std::string_view kColumns[] = {"id",
+                                         "status",
+                                         "message",
+                                         "model",
+                                         "points",
+                                         "levels",
+                                         "outlier_points",
+                                         "censored_points",
+                                         "dark_readings",
+                                         "r10_ohm",
+                                         "r10_ci95_lo_ohm",
+                                         "r10_ci95_hi_ohm",
+                                         "gamma",
+                                         "gamma_ci95_lo",
+                                         "gamma_ci95_hi",
+                                         "gamma_10_100",
+                                         "rms_log_residual",
+                                         "dark_conductance_s",
+                                         "temp_coeff_pct_per_c",
+                                         "flags"};
 
 }  // namespace
 
