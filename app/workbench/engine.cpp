@@ -14,7 +14,7 @@ std::string sha256_hex(const std::string& bytes) {
   return digest.toHex().toStdString();
 }
 
-std::pair<SourceFile, std::string> read_source_file(const std::string& path) {
+std::pair<SourceFile, std::string> read_source_file(const std::string& path, bool hash) {
   QFile file(QString::fromStdString(path));
   if (!file.open(QIODevice::ReadOnly)) {
     return {{}, fmt::format("cannot read '{}': {}", path, file.errorString().toStdString())};
@@ -23,7 +23,7 @@ std::pair<SourceFile, std::string> read_source_file(const std::string& path) {
   SourceFile source;
   source.path = path;
   source.content.assign(bytes.constData(), static_cast<std::size_t>(bytes.size()));
-  source.sha256_hex = sha256_hex(source.content);
+  if (hash) source.sha256_hex = sha256_hex(source.content);
   return {std::move(source), {}};
 }
 

@@ -22,8 +22,9 @@ struct SourceFile {
   std::string sha256_hex;
 };
 
-// Reads a file and hashes it. On failure the returned message names the path and the cause.
-std::pair<SourceFile, std::string> read_source_file(const std::string& path);
+// Reads a file and, when hash is true, hashes it (the session hashes unhashed sources on its
+// worker). On failure the returned message names the path and the cause.
+std::pair<SourceFile, std::string> read_source_file(const std::string& path, bool hash = true);
 std::string sha256_hex(const std::string& bytes);
 
 ImportResult run_import(const std::vector<SourceFile>& sources, const ImportOptions& options);

@@ -203,10 +203,18 @@ void AnalysisSession::startWorker() {
     [&] {
       if (job.import) {
         begin(Step::import, job.sources.size());
+        // Logs opened from the window arrive unhashed: hash them here, off the GUI thread.
+        std::vector<std::string> hashes;
+        for (const auto& s : job.sources) {
+          hashes.push_back(s.sha256_hex.empty() ? sha256_hex(s.content) : s.sha256_hex);
+        }
         auto result = std::make_shared<const ImportResult>(run_import(job.sources, job.import_options));
         if (stop.stop_requested()) return;
         job.imported = result;
-        post([this, result] {
+        post([this, result, hashes = std::move(hashes)] {
+          if (hashes.size() == sources_.size()) {
+            for (std::size_t i = 0; i < hashes.size(); ++i) sources_[i].sha256_hex = hashes[i];
+          }
           import_result_ = result;
           lot_fit_.reset();
           analysis_.reset();

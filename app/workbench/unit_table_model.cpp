@@ -4,7 +4,10 @@
 #include <QColor>
 #include <QFont>
 
+#include <algorithm>
+#include <cctype>
 #include <cmath>
+#include <string_view>
 
 #include "display_format.h"
 
@@ -33,6 +36,63 @@ void UnitTableModel::setVerdicts(std::vector<UnitVerdictText> verdicts) {
 const UnitFit* UnitTableModel::unitFit(int unit) const {
   if (!fit_ || unit < 0 || unit >= static_cast<int>(fit_->units.size())) return nullptr;
   return &fit_->units[static_cast<std::size_t>(unit)];
+}
+
+bool UnitTableModel::hasFlags(int unit) const {
+  const UnitFit* fit = unitFit(unit);
+  return fit && !fit->flags.empty();
+}
+
+namespace {
+
+bool less_nocase(std::string_view a, std::string_view b) {
+  return std::lexicographical_compare(a.begin(), a.end(), b.begin(), b.end(), [](char x, char y) {
+    return std::tolower(static_cast<unsigned char>(x)) < std::tolower(static_cast<unsigned char>(y));
+  });
+}
+
+}  // namespace
+
+bool UnitTableModel::rowLess(int a, int b, int column, bool ascending) const {
+  const auto& ua = lot_->units[static_cast<std::size_t>(a)];
+  const auto& ub = lot_->units[static_cast<std::size_t>(b)];
+  const UnitFit* fa = unitFit(a);
+  const UnitFit* fb = unitFit(b);
+  auto number = [&](const UnitFit* f, const Unit& u, int row) -> double {
+    const bool fitted = f && f->ok();
+    switch (column) {
+      case kPoints: {
+        if (f) return f->points;
+        int n = 0;
+        for (const auto& r : u.readings) n += r.kind == ReadingKind::normal ? 1 : 0;
+        return n;
+      }
+      case kR10: return fitted ? f->r10_ohm : kNaN;
+      case kR10Interval: return fitted ? f->r10_ci95_ohm[1] / f->r10_ci95_ohm[0] : kNaN;
+      case kGamma: return fitted ? f->gamma : kNaN;
+      case kGammaInterval: return fitted ? f->gamma_ci95[1] - f->gamma_ci95[0] : kNaN;
+      case kRms: return fitted ? f->rms_log_residual : kNaN;
+      case kFlags: return f ? static_cast<double>(f->flags.size()) : 0.0;
+      case kVerdict:
+        return verdicts_.empty() ? 0.0 : static_cast<double>(verdicts_[static_cast<std::size_t>(row)].kind);
+      default: return 0.0;
+    }
+  };
+  switch (column) {
+    case kId: return less_nocase(ua.id, ub.id);
+    case kStatus: {
+      const std::string_view sa = fa ? to_string(fa->status) : std::string_view();
+      const std::string_view sb = fb ? to_string(fb->status) : std::string_view();
+      return less_nocase(sa, sb);
+    }
+    default: break;
+  }
+  const double x = number(fa, ua, a), y = number(fb, ub, b);
+  if (std::isnan(x) || std::isnan(y)) {
+    if (std::isnan(x) && std::isnan(y)) return a < b;
+    return ascending ? std::isnan(y) : std::isnan(x);
+  }
+  return x < y;
 }
 
 int UnitTableModel::rowCount(const QModelIndex& parent) const {
@@ -194,16 +254,25 @@ void UnitFilterModel::setText(const QString& text) {
 }
 
 bool UnitFilterModel::filterAcceptsRow(int source_row, const QModelIndex& source_parent) const {
+  // Nothing to filter on: every row, without building a row's cells (a 10,000-row reset).
+  if (status_ == StatusFilter::all && verdict_ == VerdictFilter::all && text_.isEmpty()) {
+    return true;
+  }
   const auto* model = sourceModel();
   const QModelIndex id = model->index(source_row, UnitTableModel::kId, source_parent);
   const bool fitted = id.data(UnitTableModel::kFittedRole).toBool();
-  const QString flags =
-      model->index(source_row, UnitTableModel::kFlags, source_parent).data().toString();
+  const auto* units = qobject_cast<const UnitTableModel*>(model);
   switch (status_) {
     case StatusFilter::all: break;
     case StatusFilter::fitted: if (!fitted) return false; break;
     case StatusFilter::not_fitted: if (fitted) return false; break;
-    case StatusFilter::flagged: if (flags.isEmpty()) return false; break;
+    case StatusFilter::flagged:
+      if (units ? !units->hasFlags(source_row)
+                : model->index(source_row, UnitTableModel::kFlags, source_parent)
+                      .data().toString().isEmpty()) {
+        return false;
+      }
+      break;
   }
   const auto verdict = static_cast<UnitVerdictKind>(id.data(UnitTableModel::kVerdictRole).toInt());
   switch (verdict_) {
@@ -215,6 +284,8 @@ bool UnitFilterModel::filterAcceptsRow(int source_row, const QModelIndex& source
     case VerdictFilter::unknown: if (verdict != UnitVerdictKind::unknown) return false; break;
   }
   if (!text_.isEmpty()) {
+    const QString flags =
+        model->index(source_row, UnitTableModel::kFlags, source_parent).data().toString();
     return id.data().toString().contains(text_, Qt::CaseInsensitive) ||
            flags.contains(text_, Qt::CaseInsensitive);
   }
@@ -222,6 +293,10 @@ bool UnitFilterModel::filterAcceptsRow(int source_row, const QModelIndex& source
 }
 
 bool UnitFilterModel::lessThan(const QModelIndex& left, const QModelIndex& right) const {
+  if (const auto* units = qobject_cast<const UnitTableModel*>(sourceModel()); units && units->lot()) {
+    return units->rowLess(left.row(), right.row(), left.column(),
+                          sortOrder() == Qt::AscendingOrder);
+  }
   const QVariant a = left.data(sortRole());
   const QVariant b = right.data(sortRole());
   if (a.typeId() == QMetaType::Double || b.typeId() == QMetaType::Double) {
