@@ -4,6 +4,7 @@
 #include <QApplication>
 #include <QCloseEvent>
 #include <QComboBox>
+#include <QDate>
 #include <QDialog>
 #include <QDialogButtonBox>
 #include <QDoubleSpinBox>
@@ -34,6 +35,8 @@
 
 #include <cmath>
 #include <unordered_map>
+
+#include <fmt/format.h>
 
 #include "curves_view.h"
 #include "diagnostics_list.h"
@@ -352,7 +355,7 @@ void MainWindow::openLogs(const QStringList& paths, bool ask) {
   std::vector<SourceFile> sources;
   QStringList problems;
   for (const QString& p : paths) {
-    auto [source, error] = read_source_file(QFileInfo(p).absoluteFilePath().toStdString());
+    auto [source, error] = read_source_file(QFileInfo(p).absoluteFilePath().toStdString(), false);
     if (!error.empty()) {
       problems << QString::fromStdString(error);
       continue;
@@ -630,27 +633,62 @@ void MainWindow::exportPlot() {
 }
 
 void MainWindow::printSummary() {
-#if defined(PHOTOLOT_WORKBENCH_REPORT)
-  const Lot* lot = session_.lot();
-  const auto fit = session_.lotFit();
-  if (!lot || !fit) return;
+  if (!session_.lot() || !session_.lotFit()) {
+    status_text_->setText(tr("Open and fit a lot first: the summary is of its fitted curves."));
+    return;
+  }
   QString path = QFileDialog::getSaveFileName(
       this, tr("Save lot summary"), QSettings().value("folders/export").toString(),
       tr("PDF document (*.pdf)"));
   if (path.isEmpty()) return;
+  if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".pdf");
+  if (const QString error = writeSummaryTo(path); !error.isEmpty()) {
+    QMessageBox::critical(this, tr("Lot summary"), error);
+    return;
+  }
+  QSettings().setValue("folders/export", QFileInfo(path).absolutePath());
+  status_text_->setText(tr("Wrote %1").arg(QFileInfo(path).fileName()));
+}
+
+QString MainWindow::writeSummaryTo(const QString& path) {
+#if defined(PHOTOLOT_WORKBENCH_REPORT)
+  const Lot* lot = session_.lot();
+  const auto fit = session_.lotFit();
+  if (!lot || !fit) return tr("No fitted lot to summarise.");
+  // The snapshots are held here for the whole call, whatever the worker does meanwhile.
+  const auto analysis = session_.analysis();
+  const auto pairing = session_.pairing();
   report::SummaryInput input;
   input.lot = lot;
   input.fit = fit.get();
-  input.software_version = PHOTOLOT_VERSION;
-  const std::string error = report::write_lot_summary_pdf(input, path.toStdString());
-  if (!error.empty()) {
-    QMessageBox::critical(this, tr("Lot summary"), QString::fromStdString(error));
-    return;
+  if (session_.spec()) input.spec = &*session_.spec();
+  if (analysis) {
+    input.stats = &analysis->statistics;
+    if (analysis->acceptance) input.acceptance = &*analysis->acceptance;
+    if (analysis->verdicts) input.verdicts = &*analysis->verdicts;
   }
-  status_text_->setText(tr("Wrote %1").arg(QFileInfo(path).fileName()));
+  if (pairing) {
+    report::PairsSection pairs;
+    const PairOptions& o = pairing->options;
+    pairs.method = fmt::format(
+        "{} tracking error over {:g}-{:g} lx, exact maximum matching ({})",
+        to_string(o.mode), o.lux_lo, o.lux_hi, to_string(pairing->proof));
+    pairs.tolerance_pct = o.tolerance_pct;
+    pairs.unpaired = pairing->unpaired.size();
+    int n = 0;
+    for (const auto& p : pairing->pairs) {
+      pairs.rows.push_back({++n, p.a_id, p.b_id, p.tracking_error_pct});
+    }
+    input.pairs = std::move(pairs);
+  }
+  if (input.spec) input.header.part = input.spec->part_number;
+  input.header.lot_id = lot->name;
+  input.header.date = QDate::currentDate().toString(Qt::ISODate).toStdString();
+  input.software_version = PHOTOLOT_VERSION;
+  return QString::fromStdString(report::write_lot_summary_pdf(input, path.toStdString()));
 #else
-  QMessageBox::information(this, tr("Lot summary"),
-                           tr("The printed lot summary is not available in this build yet."));
+  (void)path;
+  return tr("The printed lot summary is not part of this build.");
 #endif
 }
 
@@ -912,7 +950,8 @@ void MainWindow::selectUnits(const std::vector<int>& units) {
   }
   table_->selectionModel()->select(selection, QItemSelectionModel::ClearAndSelect |
                                                   QItemSelectionModel::Rows);
-  if (!selection.isEmpty()) table_->scrollTo(selection.indexes().first());
+  // The first row, not selection.indexes(): that lists every cell of every range.
+  if (!rows.empty()) table_->scrollTo(filter_->index(rows.front(), 0));
   selection_timer_.stop();
   onSelectionChanged();
 }

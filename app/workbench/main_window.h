@@ -49,6 +49,9 @@ class MainWindow : public QMainWindow {
   // Starts pairing with the options shown in the pairs view.
   void findPairs();
   bool saveWorkspaceTo(const QString& path);
+  // Writes the lot summary PDF (app/report) of what is shown: the fit, and the spec, statistics,
+  // verdicts, disposition and pairs when they are there. Empty on success, else the message.
+  QString writeSummaryTo(const QString& path);
   // Re-imports the current sources with other choices (the import dialog's result).
   void setImportOptions(const ImportOptions& options);
   // Select units by index into the lot (the table, the curves and the spread follow).

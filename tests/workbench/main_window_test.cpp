@@ -11,6 +11,8 @@
 
 #include <qcustomplot.h>
 
+#include <cctype>
+#include <cstdio>
 #include <fstream>
 
 #include "curves_view.h"
@@ -31,6 +33,26 @@ std::vector<std::vector<QString>> table_text(const UnitTableModel& model) {
     rows.push_back(row);
   }
   return rows;
+}
+
+// The PDF's text as poppler's pdftotext reads it (poppler-utils), spaces collapsed: what a
+// person reading the page sees, not what our writer meant to put there.
+std::string pdf_text(const std::filesystem::path& pdf) {
+  const std::string command = "pdftotext -layout '" + pdf.string() + "' - 2>/dev/null";
+  std::string text;
+  if (FILE* pipe = popen(command.c_str(), "r")) {
+    char buffer[4096];
+    std::size_t n;
+    while ((n = std::fread(buffer, 1, sizeof buffer, pipe)) > 0) text.append(buffer, n);
+    pclose(pipe);
+  }
+  std::string flat;
+  for (char c : text) {
+    const bool space = c == ' ' || c == '\n' || c == '\t' || c == '\f' || c == '\r';
+    if (space && (flat.empty() || flat.back() == ' ')) continue;
+    flat.push_back(space ? ' ' : c);
+  }
+  return flat;
 }
 
 class MainWindowTest : public ::testing::Test {
@@ -177,6 +199,39 @@ TEST(MainWindowSampleLot, OpensTheBundledSampleLot) {
   ASSERT_NE(lot, nullptr);
   EXPECT_EQ(window.unitModel()->rowCount(), static_cast<int>(lot->units.size()));
   EXPECT_GT(window.session()->lotFit()->fitted_count(), lot->units.size() / 2);
+}
+
+TEST(MainWindowSampleLot, WritesTheLotSummaryWithTheDispositionPartNumberAndPairs) {
+  const auto log = photolot::test::source_path("sample-data/demo-lot.csv");
+  const auto spec = photolot::test::source_path("sample-data/demo-spec.toml");
+  if (!std::filesystem::exists(log)) GTEST_SKIP() << "sample-data/demo-lot.csv has not landed";
+  MainWindow window;
+  window.openPaths({QString::fromStdString(log.string())});
+  ASSERT_TRUE(window.openSpecFile(QString::fromStdString(spec.string())));
+  ASSERT_TRUE(test::wait_idle(*window.session()));
+  window.findPairs();
+  ASSERT_TRUE(test::wait_idle(*window.session()));
+  const auto analysis = window.session()->analysis();
+  ASSERT_TRUE(analysis && analysis->acceptance);
+  ASSERT_TRUE(window.session()->pairing());
+
+  const auto pdf = photolot::test::scratch_dir() / "summary.pdf";
+  const QString error = window.writeSummaryTo(QString::fromStdString(pdf.string()));
+  ASSERT_TRUE(error.isEmpty()) << error.toStdString();
+  const std::string text = pdf_text(pdf);
+  ASSERT_FALSE(text.empty()) << "pdftotext could not read " << pdf;
+  // The part number as written in the spec file, and the disposition the acceptance step
+  // decided (the summary prints it in capitals, as an inspection stamp would).
+  EXPECT_NE(text.find("DEMO-LDR-20K"), std::string::npos);
+  std::string disposition(to_string(analysis->acceptance->disposition));
+  for (char& c : disposition) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+  EXPECT_NE(text.find(disposition), std::string::npos) << disposition;
+  // The first pair of the pick list, by its two unit ids.
+  const auto& pairs = window.session()->pairing()->pairs;
+  if (!pairs.empty()) {
+    EXPECT_NE(text.find(pairs.front().a_id), std::string::npos);
+    EXPECT_NE(text.find(pairs.front().b_id), std::string::npos);
+  }
 }
 
 }  // namespace
