@@ -1,0 +1,47 @@
+#include "engine.h"
+
+#include <QCryptographicHash>
+#include <QFile>
+
+#include <fmt/format.h>
+
+namespace photolot::workbench {
+
+std::string sha256_hex(const std::string& bytes) {
+  const QByteArray digest = QCryptographicHash::hash(
+      QByteArrayView(bytes.data(), static_cast<qsizetype>(bytes.size())),
+      QCryptographicHash::Sha256);
+  return digest.toHex().toStdString();
+}
+
+std::pair<SourceFile, std::string> read_source_file(const std::string& path, bool hash) {
+  QFile file(QString::fromStdString(path));
+  if (!file.open(QIODevice::ReadOnly)) {
+    return {{}, fmt::format("cannot read '{}': {}", path, file.errorString().toStdString())};
+  }
+  const QByteArray bytes = file.readAll();
+  SourceFile source;
+  source.path = path;
+  source.content.assign(bytes.constData(), static_cast<std::size_t>(bytes.size()));
+  if (hash) source.sha256_hex = sha256_hex(source.content);
+  return {std::move(source), {}};
+}
+
+ImportResult run_import(const std::vector<SourceFile>& sources, const ImportOptions& options) {
+  std::vector<std::pair<std::string, std::string>> named;
+  named.reserve(sources.size());
+  for (const auto& s : sources) named.emplace_back(s.path, s.content);
+  return import_buffers(named, options);
+}
+
+FileLayout run_detect(const SourceFile& source, const ImportOptions& options,
+                      std::size_t preview_rows) {
+  return detect_layout(source.path, source.content, options, preview_rows);
+}
+
+LotFit run_fit(const Lot& lot, const fitting::FitOptions& options, const ProgressFn& progress,
+               std::stop_token stop) {
+  return fitting::fit_lot(lot, options, progress, stop);
+}
+
+}  // namespace photolot::workbench
