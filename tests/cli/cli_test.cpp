@@ -22,35 +22,12 @@ namespace {
 using Json = nlohmann::json;
 namespace fs = std::filesystem;
 
-struct CliRun {
-  int code = -1;
-  std::string out, err;
-};
-
-std::string quote(const std::string& s) {
-  std::string q = "'";
-  for (char c : s) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
-  return q + "'";
-}
-
-std::string slurp(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
-}
+using photolot::test::CliRun;
+using photolot::test::slurp;
 
 // Runs photolot-cli with args in `dir` (the current folder of the run).
 CliRun run_cli(const std::vector<std::string>& args, const fs::path& dir) {
-  std::string cmd = "cd " + quote(dir.string()) + " && LC_ALL=C.UTF-8 " + quote(PHOTOLOT_CLI_PATH);
-  for (const auto& a : args) cmd += " " + quote(a);
-  cmd += " >" + quote((dir / "stdout.txt").string()) + " 2>" + quote((dir / "stderr.txt").string());
-  int status = std::system(cmd.c_str());
-  CliRun r;
-  r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  r.out = slurp(dir / "stdout.txt");
-  r.err = slurp(dir / "stderr.txt");
-  fs::remove(dir / "stdout.txt");
-  fs::remove(dir / "stderr.txt");
-  return r;
+  return photolot::test::run_program(PHOTOLOT_CLI_PATH, args, dir);
 }
 
 std::string sample(const std::string& name) {

@@ -5,7 +5,11 @@
 #include <sys/wait.h>
 
 #include <cstdlib>
+#include <sys/wait.h>
+
+#include <cstdlib>
 #include <fstream>
+#include <iterator>
 #include <iterator>
 
 namespace photolot::test {
@@ -42,6 +46,31 @@ int run_in(const std::filesystem::path& dir, const std::string& command) {
   const std::string line = "cd '" + dir.string() + "' && " + command;
   const int status = std::system(line.c_str());
   return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+}
+
+std::string slurp(const std::filesystem::path& path) {
+  std::ifstream in(path, std::ios::binary);
+  return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
+}
+
+std::string shell_quote(const std::string& word) {
+  std::string q = "'";
+  for (char c : word) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
+  return q + "'";
+}
+
+CliRun run_program(const std::string& program, const std::vector<std::string>& args,
+                   const std::filesystem::path& dir) {
+  std::string cmd = "cd " + shell_quote(dir.string()) + " && LC_ALL=C.UTF-8 " + shell_quote(program);
+  for (const auto& a : args) cmd += " " + shell_quote(a);
+  cmd += " >" + shell_quote((dir / "stdout.txt").string()) + " 2>" +
+         shell_quote((dir / "stderr.txt").string());
+  const int status = std::system(cmd.c_str());
+  CliRun r;
+  r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  r.out = slurp(dir / "stdout.txt");
+  r.err = slurp(dir / "stderr.txt");
+  return r;
 }
 
 }  // namespace photolot::test

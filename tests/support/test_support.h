@@ -4,6 +4,7 @@
 
 #include <filesystem>
 #include <string>
+#include <vector>
 
 namespace photolot::test {
 
@@ -22,5 +23,22 @@ std::string read_file(const std::filesystem::path& path);
 // Runs `command` through the shell in folder `dir`; its exit code, or -1 when it did not exit
 // (killed by a signal).
 int run_in(const std::filesystem::path& dir, const std::string& command);
+
+// A finished run of a program: exit code (-1 when it did not exit normally) and its output.
+struct CliRun {
+  int code = -1;
+  std::string out, err;
+};
+
+// The whole content of a file (empty when it cannot be read).
+std::string slurp(const std::filesystem::path& path);
+
+// Single-quotes a word for the POSIX shell.
+std::string shell_quote(const std::string& word);
+
+// Runs `program` with `args` in folder `dir` under the C.UTF-8 locale, as a user would from a
+// shell there; stdout and stderr are captured through dir/stdout.txt and dir/stderr.txt.
+CliRun run_program(const std::string& program, const std::vector<std::string>& args,
+                   const std::filesystem::path& dir);
 
 }  // namespace photolot::test
