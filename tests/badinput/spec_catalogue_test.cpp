@@ -31,7 +31,9 @@ void expect_refused(const SpecLoadResult& r, const std::string& text, std::uint3
     found = true;
     EXPECT_NE(e.file.find("spec.toml"), std::string::npos);
     EXPECT_EQ(e.line, line) << to_string(e);
-    if (column) EXPECT_EQ(e.column, column) << to_string(e);
+    if (column) {
+      EXPECT_EQ(e.column, column) << to_string(e);
+    }
   }
   EXPECT_TRUE(found) << "no error containing '" << text << "'; first: " << to_string(r.errors[0]);
 }
