@@ -2,6 +2,7 @@
 
 #include <QAction>
 #include <QApplication>
+#include <QCheckBox>
 #include <QCloseEvent>
 #include <QComboBox>
 #include <QDate>
@@ -40,6 +41,7 @@
 
 #include "curves_view.h"
 #include "diagnostics_list.h"
+#include "fit_handling.h"
 #include "help_text.h"
 #include "import_dialog.h"
 #include "acceptance_view.h"
@@ -94,8 +96,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   connect(&session_, &AnalysisSession::analysisFinished, this, &MainWindow::onAnalysisFinished);
   connect(&session_, &AnalysisSession::pairingFinished, this, &MainWindow::onPairingFinished);
   connect(&session_, &AnalysisSession::cancelled, this, [this] {
-    status_text_->setText(tr("Stopped. The results shown are from the last finished run; "
-                             "Analysis ▸ Refit runs it again."));
+    showResult(tr("Stopped. The results shown are from the last finished run; "
+                  "Analysis ▸ Refit runs it again."));
   });
   connect(&session_, &AnalysisSession::inputsChanged, this, [this] {
     if (!session_.sources().empty()) setModified(true);
@@ -105,6 +107,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
 }
 
 MainWindow::~MainWindow() = default;
+
+QString MainWindow::statusText() const { return status_text_->text(); }
 
 void MainWindow::buildLayout() {
   // Left: the unit table with its filters.
@@ -204,6 +208,7 @@ void MainWindow::buildLayout() {
       return;
     }
     session_.setPairOptions(options);
+    session_.setPairAllFitted(pairs_->includeAllFitted());
     session_.setPairingWanted(true);
     pairs_->setPairing(nullptr, true);
     session_.run();
@@ -212,6 +217,12 @@ void MainWindow::buildLayout() {
     selectUnits({static_cast<int>(a), static_cast<int>(b)});
   });
   connect(pairs_, &PairsView::exportRequested, this, &MainWindow::savePickList);
+  connect(pairs_, &PairsView::includeAllFittedChanged, this, [this] {
+    session_.setPairAllFitted(pairs_->includeAllFitted());
+    if (!session_.pairingWanted()) return;
+    pairs_->setPairing(nullptr, true);
+    session_.run();
+  });
 
   splitter_ = new QSplitter(this);
   splitter_->setObjectName(QStringLiteral("mainSplitter"));
@@ -308,7 +319,7 @@ void MainWindow::restoreSettings() {
   if (!restoreGeometry(settings.value("window/geometry").toByteArray())) resize(1360, 840);
   restoreState(settings.value("window/state").toByteArray());
   splitter_->restoreState(settings.value("window/splitter").toByteArray());
-  table_->horizontalHeader()->restoreState(settings.value("window/unitTable").toByteArray());
+  table_->horizontalHeader()->restoreState(settings.value("window/unitTableV2").toByteArray());
   if (splitter_->sizes().value(0) == 0) splitter_->setSizes({560, 800});
 }
 
@@ -426,6 +437,8 @@ bool MainWindow::openWorkspace(const QString& path) {
   session_.setSources(std::move(sources));
   session_.setImportOptions(workspace.import_options);
   session_.setFitOptions(workspace.fit_options);
+  session_.setModelOptions(workspace.model.model);
+  bench_profile_name_ = workspace.model.bench_profile_name;
   std::optional<Spec> spec;
   spec_toml_.clear();
   if (workspace.spec.is_object() && workspace.spec.contains("toml")) {
@@ -477,6 +490,7 @@ Workspace MainWindow::currentWorkspace() const {
   }
   w.import_options = session_.importOptions();
   w.fit_options = session_.fitOptions();
+  w.model = {session_.modelOptions(), bench_profile_name_};
   if (const Lot* lot = session_.lot()) {
     for (int u : selectedUnits()) w.view.selected_units.push_back(lot->units[u].id);
   } else {
@@ -594,6 +608,63 @@ void MainWindow::editFitOptions() {
   confidence->setDecimals(1);
   confidence->setSuffix(tr(" %"));
   confidence->setValue(current.confidence * 100);
+  const fitting::ExtendedFitOptions current_model = session_.modelOptions();
+  auto* model = new QComboBox(&dialog);
+  model->setObjectName(QStringLiteral("fitModel"));
+  model->addItem(tr("Power law"), static_cast<int>(fitting::ModelChoice::power_law));
+  model->addItem(tr("Dark conductance in parallel"),
+                 static_cast<int>(fitting::ModelChoice::dark_conductance));
+  model->addItem(tr("Choose per unit (lower AICc)"), static_cast<int>(fitting::ModelChoice::choose));
+  model->setCurrentIndex(model->findData(static_cast<int>(current_model.model)));
+  auto* temperature = new QComboBox(&dialog);
+  temperature->addItem(tr("Fit where identifiable, else the spec's coefficient"),
+                       static_cast<int>(fitting::TemperatureMode::fit));
+  temperature->addItem(tr("Off: results at the bench's temperature"),
+                       static_cast<int>(fitting::TemperatureMode::off));
+  temperature->setCurrentIndex(temperature->findData(static_cast<int>(current_model.temperature)));
+  auto* bounds = new QCheckBox(tr("Over-range readings as one-sided bounds"), &dialog);
+  bounds->setChecked(current_model.censored_terms);
+  // The bench profile: its file is read when chosen; the workspace keeps its content.
+  std::optional<BenchProfile> bench = current_model.bench;
+  QString bench_name = QString::fromStdString(bench_profile_name_);
+  auto* bench_label = new QLabel(&dialog);
+  auto show_bench = [&] {
+    bench_label->setText(bench ? (bench_name.isEmpty() ? tr("(from the workspace)") : bench_name)
+                               : tr("none"));
+  };
+  show_bench();
+  auto* bench_choose = new QPushButton(tr("Choose…"), &dialog);
+  auto* bench_clear = new QPushButton(tr("None"), &dialog);
+  connect(bench_choose, &QPushButton::clicked, &dialog, [&] {
+    const QString path = QFileDialog::getOpenFileName(
+        &dialog, tr("Bench profile"), QSettings().value("folders/spec").toString(),
+        tr("Bench profile (*.toml);;All files (*)"));
+    if (path.isEmpty()) return;
+    BenchProfileResult loaded = load_bench_profile(path.toStdString());
+    if (!loaded.ok()) {
+      const FileError& e = *loaded.error;
+      QMessageBox::critical(&dialog, tr("Bench profile"),
+                            QString::fromStdString(fmt::format("{}:{}:{}: {}", e.file, e.line,
+                                                               e.column, e.message)));
+      return;
+    }
+    bench = loaded.profile;
+    bench_name = QFileInfo(path).fileName();
+    show_bench();
+  });
+  connect(bench_clear, &QPushButton::clicked, &dialog, [&] {
+    bench.reset();
+    bench_name.clear();
+    show_bench();
+  });
+  auto* bench_row = new QHBoxLayout;
+  bench_row->addWidget(bench_label, 1);
+  bench_row->addWidget(bench_choose);
+  bench_row->addWidget(bench_clear);
+  form->addRow(tr("Curve model"), model);
+  form->addRow(tr("Temperature"), temperature);
+  form->addRow(QString(), bounds);
+  form->addRow(tr("Bench profile"), bench_row);
   form->addRow(tr("Robust loss"), loss);
   form->addRow(tr("Meter accuracy"), accuracy);
   form->addRow(tr("Outlier beyond (× loss scale)"), threshold);
@@ -608,11 +679,25 @@ void MainWindow::editFitOptions() {
   options.meter_accuracy_pct = accuracy->value();
   options.outlier_threshold = threshold->value();
   options.confidence = confidence->value() / 100;
-  if (const std::string problem = options.validate(); !problem.empty()) {
+  fitting::ExtendedFitOptions model_options = current_model;
+  model_options.model = static_cast<fitting::ModelChoice>(model->currentData().toInt());
+  model_options.temperature =
+      static_cast<fitting::TemperatureMode>(temperature->currentData().toInt());
+  model_options.censored_terms = bounds->isChecked();
+  model_options.bench = bench;
+  std::string problem = options.validate();
+  if (problem.empty()) problem = model_options.validate();
+  if (!problem.empty()) {
     QMessageBox::warning(this, tr("Fit options"), QString::fromStdString(problem));
     return;
   }
   session_.setFitOptions(options);
+  setFitHandling({model_options, bench_name.toStdString()});
+}
+
+void MainWindow::setFitHandling(const FitHandling& handling) {
+  bench_profile_name_ = handling.bench_profile_name;
+  session_.setModelOptions(handling.model);
   session_.run();
 }
 
@@ -726,12 +811,28 @@ void MainWindow::onBusyChanged(bool busy) {
   if (busy) {
     progress_->setRange(0, 0);
     status_text_->setText(tr("Working…"));
+  } else {
+    // The last progress poll arrives just before the session goes idle: put back what the
+    // run ended with, so the status line never keeps saying "Fitting…" after the fit.
+    status_text_->setText(result_text_.isEmpty() ? tr("Ready.") : result_text_);
   }
+}
+
+void MainWindow::showResult(const QString& text) {
+  result_text_ = text;
+  status_text_->setText(text);
 }
 
 void MainWindow::onProgress(AnalysisSession::Step step, qint64 done, qint64 total) {
   if (!session_.busy()) return;
-  const QString what = step == AnalysisSession::Step::import ? tr("Importing") : tr("Fitting");
+  QString what;
+  switch (step) {
+    case AnalysisSession::Step::import: what = tr("Importing"); break;
+    case AnalysisSession::Step::fit: what = tr("Fitting"); break;
+    case AnalysisSession::Step::analysis: what = tr("Judging the lot"); break;
+    case AnalysisSession::Step::pairing: what = tr("Pairing"); break;
+    case AnalysisSession::Step::idle: return;
+  }
   if (total <= 0) {
     progress_->setRange(0, 0);
   } else {
@@ -770,7 +871,7 @@ void MainWindow::onImportFinished() {
   lot_label_->setText(tr("Lot %1 — %n unit(s)", "", static_cast<int>(result->lot.units.size()))
                           .arg(name));
   if (!result->errors.empty()) {
-    status_text_->setText(QString::fromStdString(result->errors.front().message));
+    showResult(QString::fromStdString(result->errors.front().message));
     tabs_->setCurrentWidget(import_log_);
   }
   updateCountLabel();
@@ -789,7 +890,7 @@ void MainWindow::onFitFinished() {
   model_->setLot(lot, fit);
   filter_->sort(table_->horizontalHeader()->sortIndicatorSection(),
                 table_->horizontalHeader()->sortIndicatorOrder());
-  curves_->setLot(lot.get(), fit.get());
+  curves_->setLot(lot.get(), fit.get(), session_.curveSeries());
   spread_->setFit(fit.get());
   pairs_->setFit(fit);
   pairs_->setPairing(nullptr, session_.pairingWanted());
@@ -805,11 +906,13 @@ void MainWindow::onFitFinished() {
     units.push_back(filter_->mapToSource(filter_->index(0, 0)).row());
   }
   selectUnits(units);
+  const FitHandling handling{session_.effectiveModelOptions(), bench_profile_name_};
+  acceptance_->setFitHandling(describe_fit_handling(fit.get(), handling));
   if (fit) {
-    status_text_->setText(tr("%1 of %2 units fitted. %3")
-                              .arg(fit->fitted_count())
-                              .arg(fit->units.size())
-                              .arg(QString::fromStdString(fit->method)));
+    showResult(tr("%1 of %2 units fitted; %3. %4")
+                   .arg(fit->fitted_count())
+                   .arg(fit->units.size())
+                   .arg(brief_fit_handling(*fit, handling), QString::fromStdString(fit->method)));
   }
   updateCountLabel();
 }
@@ -819,6 +922,7 @@ void MainWindow::onAnalysisFinished() {
   const Lot* lot = session_.lot();
   const bool spec_loaded = session_.spec().has_value();
   acceptance_->setAnalysis(analysis, lot ? lot->units.size() : 0, spec_loaded);
+  pairs_->setSpecLoaded(spec_loaded);
   std::vector<UnitVerdictText> verdicts;
   if (analysis && analysis->verdicts) {
     for (const auto& v : *analysis->verdicts) {
@@ -854,7 +958,9 @@ void MainWindow::onAnalysisFinished() {
   spread_->setToleranceIntervals(r10_ti, gamma_ti);
 }
 
-void MainWindow::onPairingFinished() { pairs_->setPairing(session_.pairing(), false); }
+void MainWindow::onPairingFinished() {
+  pairs_->setPairing(session_.pairing(), false, session_.pairingEligibility());
+}
 
 void MainWindow::openSpec() {
   const QString path = QFileDialog::getOpenFileName(
@@ -1001,7 +1107,7 @@ void MainWindow::closeEvent(QCloseEvent* event) {
   settings.setValue("window/geometry", saveGeometry());
   settings.setValue("window/state", saveState());
   settings.setValue("window/splitter", splitter_->saveState());
-  settings.setValue("window/unitTable", table_->horizontalHeader()->saveState());
+  settings.setValue("window/unitTableV2", table_->horizontalHeader()->saveState());
   event->accept();
 }
 

@@ -115,6 +115,7 @@ nlohmann::json workspace_to_json(const Workspace& w, const QString& folder) {
   j["sources"] = sources;
   j["import"] = to_json(w.import_options);
   j["fit"] = to_json(w.fit_options);
+  j["model"] = to_json(w.model);
   j["view"] = {{"selected_units", w.view.selected_units},
                {"filter", w.view.filter},
                {"tab", w.view.tab}};
@@ -155,6 +156,9 @@ std::optional<std::string> workspace_from_json(const nlohmann::json& j, const QS
   }
   if (j.contains("fit")) {
     if (auto e = from_json(j["fit"], w.fit_options)) return e;
+  }
+  if (j.contains("model")) {
+    if (auto e = from_json(j["model"], w.model)) return e;
   }
   if (j.contains("view") && j["view"].is_object()) {
     const auto& v = j["view"];

@@ -5,7 +5,7 @@
 //
 //   {"format": "photolot-workspace", "version": 1, "saved_by": "photolot 0.1.0",
 //    "sources": [{"path": "logs/reel-07.csv", "sha256": "…", "bytes": 51234}],
-//    "import": {...ImportOptions...}, "fit": {...FitOptions...},
+//    "import": {...ImportOptions...}, "fit": {...FitOptions...}, "model": {...fit_handling.h...},
 //    "view": {"selected_units": ["U0001"], "filter": "", "tab": "curves"},
 //    "spec": null, "results": null}
 #pragma once
@@ -18,6 +18,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "fit_handling.h"
 #include "photolot/fitting/fit.h"
 #include "photolot/import.h"
 
@@ -42,6 +43,7 @@ struct Workspace {
   std::vector<WorkspaceSource> sources;
   ImportOptions import_options;
   fitting::FitOptions fit_options;
+  FitHandling model;  // curve model, bench profile, temperature ("model" in the file)
   WorkspaceView view;
   nlohmann::json spec;     // null until the spec step lands
   nlohmann::json results;  // the results document, null until it lands
