@@ -15,7 +15,6 @@
 
 namespace {
 
-using photolot::fitting::ExtendedFitOptions;
 using photolot::fitting::FitOptions;
 
 struct DarkResidual {
@@ -31,16 +30,11 @@ struct DarkResidual {
 void expect_covariance_matches_ceres(const photolot::test::UnitSim& sim, std::uint64_t seed) {
   photolot::test::Rng rng(seed);
   const photolot::Unit unit = photolot::test::simulate_unit(sim, rng);
-  FitOptions options;
-  options.loss = photolot::fitting::Loss::none;
-  ExtendedFitOptions ext;
-  ext.model = photolot::fitting::ModelChoice::dark_conductance;
-  ext.temperature = photolot::fitting::TemperatureMode::off;
-  const photolot::UnitFit fit = photolot::fitting::fit_unit_extended(unit, options, ext);
+  const photolot::UnitFit fit = photolot::test::fit_dark_least_squares(unit);
   ASSERT_TRUE(fit.ok()) << fit.message;
   ASSERT_EQ(fit.curve.covariance.size(), 9u);
 
-  const double sd = std::log1p(options.meter_accuracy_pct / 100.0);
+  const double sd = std::log1p(FitOptions{}.meter_accuracy_pct / 100.0);
   double theta[3] = {fit.curve.params[0], fit.curve.params[1], std::log(fit.curve.params[2])};
   ceres::Problem problem;
   double chi2 = 0;

@@ -1,6 +1,7 @@
-// The per-unit extended fit: Ceres problems for the power law and the dark-conductance model,
-// with one-sided terms for over-range readings, meter weights and an optional temperature term;
-// covariance from the Jacobian at the optimum; the AICc choice. Formulas in docs/models.md.
+// The per-unit extended fit: the power law and the dark-conductance model solved by TinySolver
+// (autodiff Jets), with one-sided terms for over-range readings, meter weights and an optional
+// temperature term; covariance from the Jacobian at the optimum; the AICc choice; and the lot's
+// joint temperature problem, the one full ceres::Problem. Formulas in docs/models.md.
 #include <ceres/ceres.h>
 #include <ceres/tiny_solver.h>
 #include <fmt/format.h>
