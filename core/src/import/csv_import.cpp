@@ -45,7 +45,7 @@
 #include <filesystem>
 #include <fstream>
 #include <numeric>
-#include <unordered_map>
+#include <string_view>
 
 #include "../units/value_scan.h"
 #include "columns.h"
@@ -499,16 +499,35 @@ class Builder {
   }
 
   [[gnu::noinline]] std::uint32_t find_or_add_unit(std::string_view id) {
-    last_id_.assign(id);
-    auto it = ids_.find(last_id_);
-    std::uint32_t index;
-    if (it == ids_.end()) {
-      index = static_cast<std::uint32_t>(lot_.units.size());
-      lot_.units.push_back(Unit{std::string(id), {}});
-      ids_.emplace(last_id_, index);
-    } else {
-      index = it->second;
+    const std::uint64_t hash = std::hash<std::string_view>{}(id);
+    const std::uint64_t tag = hash >> 32 << 32;
+    if (id_slots_.empty()) id_slots_.assign(1024, 0);
+    std::size_t mask = id_slots_.size() - 1;
+    std::size_t i = hash & mask;
+    for (; id_slots_[i] != 0; i = (i + 1) & mask) {
+      const std::uint64_t slot = id_slots_[i];
+      const std::uint32_t index = static_cast<std::uint32_t>(slot) - 1;
+      if ((slot & ~std::uint64_t{0xFFFFFFFF}) == tag && lot_.units[index].id == id)
+        return remember(id, index);
     }
+    const std::uint32_t index = static_cast<std::uint32_t>(lot_.units.size());
+    lot_.units.push_back(Unit{std::string(id), {}});
+    unit_hashes_.push_back(hash);
+    id_slots_[i] = tag | (index + 1);
+    if (2 * lot_.units.size() > id_slots_.size()) {  // keep the table at most half full
+      id_slots_.assign(2 * id_slots_.size(), 0);
+      mask = id_slots_.size() - 1;
+      for (std::uint32_t u = 0; u < unit_hashes_.size(); ++u) {
+        std::size_t k = unit_hashes_[u] & mask;
+        while (id_slots_[k] != 0) k = (k + 1) & mask;
+        id_slots_[k] = (unit_hashes_[u] >> 32 << 32) | (u + 1);
+      }
+    }
+    return remember(id, index);
+  }
+
+  std::uint32_t remember(std::string_view id, std::uint32_t index) {
+    last_id_.assign(id);
     last_index_ = index;
     have_last_ = true;
     return index;
@@ -945,7 +964,11 @@ class Builder {
   std::vector<Pending> pending_;          // readings of all files, in file order
   std::vector<FileTally> tallies_;        // per file
   std::vector<std::uint32_t> diag_file_;  // file index of each diagnostic
-  std::unordered_map<std::string, std::uint32_t> ids_;
+  // Unit id -> index in lot_.units: open addressing with linear probing over a power-of-two
+  // table of (high 32 bits of the id's hash << 32 | index + 1), 0 for empty; the hashes kept
+  // per unit for growing the table. No node per id, no division per look-up.
+  std::vector<std::uint64_t> id_slots_;
+  std::vector<std::uint64_t> unit_hashes_;
   std::string last_id_;
   std::uint32_t last_index_ = 0;
   bool have_last_ = false;
