@@ -44,6 +44,7 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
+#include <limits>
 #include <numeric>
 #include <string_view>
 
@@ -512,6 +513,7 @@ class Builder {
     }
     const std::uint32_t index = static_cast<std::uint32_t>(lot_.units.size());
     lot_.units.push_back(Unit{std::string(id), {}});
+    unit_rows_.push_back(0);
     unit_hashes_.push_back(hash);
     id_slots_[i] = tag | (index + 1);
     if (2 * lot_.units.size() > id_slots_.size()) {  // keep the table at most half full
@@ -747,6 +749,9 @@ class Builder {
                : extra.over_range ? ReadingKind::censored
                                   : ReadingKind::normal;
       const std::uint32_t u = unit_index(id);
+      grouped_ &= u >= last_pending_unit_;
+      last_pending_unit_ = u;
+      ++unit_rows_[u];
       pending_.push_back(Pending{r, extra, u});
       ++counts.rows_used;
     };
@@ -814,22 +819,18 @@ class Builder {
   void distribute() {
     const std::size_t n_units = lot_.units.size();
     std::vector<std::uint32_t> start(n_units + 1, 0);
+    for (std::size_t u = 0; u < n_units; ++u) start[u + 1] = start[u] + unit_rows_[u];
     // Readings usually arrive a unit at a time (unit indices never fall): then the units'
     // readings already lie contiguous in file order and need no regrouping.
-    bool grouped = true;
-    for (std::size_t i = 0; i < pending_.size(); ++i) {
-      ++start[pending_[i].unit + 1];
-      grouped &= i == 0 || pending_[i - 1].unit <= pending_[i].unit;
-    }
-    for (std::size_t u = 0; u < n_units; ++u) start[u + 1] += start[u];
     std::vector<std::uint32_t> slots;
-    if (!grouped) {
+    if (!grouped_) {
       slots.resize(pending_.size());
       std::vector<std::uint32_t> fill(start.begin(), start.end() - 1);
       for (std::uint32_t i = 0; i < pending_.size(); ++i) slots[fill[pending_[i].unit]++] = i;
     }
+    const bool grouped = grouped_;
     auto slot = [&](std::uint32_t k) { return grouped ? k : slots[k]; };
-    std::vector<std::uint8_t> dropped(pending_.size(), 0);
+    std::vector<std::uint8_t> dropped;  // made for the first unit that needs the check
     std::vector<std::uint32_t> order;
     auto before = [&](std::uint32_t a, std::uint32_t b) {
       const Reading& x = pending_[a].r;
@@ -841,28 +842,40 @@ class Builder {
     };
     for (std::size_t u = 0; u < n_units; ++u) {
       const std::uint32_t b = start[u], e = start[u + 1];
-      // Illuminance strictly rising in file order (the usual sweep): already sorted, and no two
-      // readings share a key, so there is nothing to sort or to check.
-      bool rising = true;
-      for (std::uint32_t k = b + 1; k < e && rising; ++k)
-        rising = pending_[slot(k - 1)].r.lux < pending_[slot(k)].r.lux;
-      if (!rising) {
-        order.resize(e - b);
-        for (std::uint32_t k = b; k < e; ++k) order[k - b] = slot(k);  // file order
-        if (order.size() <= 32) {
-          for (std::size_t i = 1; i < order.size(); ++i) {  // insertion sort: stable, small
-            const std::uint32_t v = order[i];
-            std::size_t j = i;
-            for (; j > 0 && before(v, order[j - 1]); --j) order[j] = order[j - 1];
-            order[j] = v;
-          }
-        } else {
-          std::stable_sort(order.begin(), order.end(), before);
-        }
-        check_group_duplicates(u, order, dropped);
-      }
       auto& readings = lot_.units[u].readings;
       readings.reserve(e - b);
+      // Illuminance strictly rising in file order (the usual sweep): already sorted, and no two
+      // readings share a key, so there is nothing to sort or to check. Copied while checking.
+      bool rising = true;
+      double previous_lux = -std::numeric_limits<double>::infinity();
+      for (std::uint32_t k = b; k < e; ++k) {
+        const Reading& r = pending_[slot(k)].r;
+        if (!(r.lux > previous_lux)) {
+          rising = false;
+          break;
+        }
+        previous_lux = r.lux;
+        readings.push_back(r);
+      }
+      if (rising) {
+        for (std::uint32_t k = b; k < e; ++k) tally_kept(pending_[slot(k)]);
+        continue;
+      }
+      readings.clear();
+      if (dropped.empty()) dropped.assign(pending_.size(), 0);
+      order.resize(e - b);
+      for (std::uint32_t k = b; k < e; ++k) order[k - b] = slot(k);  // file order
+      if (order.size() <= 32) {
+        for (std::size_t i = 1; i < order.size(); ++i) {  // insertion sort: stable, small
+          const std::uint32_t v = order[i];
+          std::size_t j = i;
+          for (; j > 0 && before(v, order[j - 1]); --j) order[j] = order[j - 1];
+          order[j] = v;
+        }
+      } else {
+        std::stable_sort(order.begin(), order.end(), before);
+      }
+      check_group_duplicates(u, order, dropped);
       for (std::uint32_t k = b; k < e; ++k) {
         const std::uint32_t i = slot(k);
         if (dropped[i]) continue;
@@ -969,6 +982,9 @@ class Builder {
   // per unit for growing the table. No node per id, no division per look-up.
   std::vector<std::uint64_t> id_slots_;
   std::vector<std::uint64_t> unit_hashes_;
+  std::vector<std::uint32_t> unit_rows_;  // readings waiting in pending_, per unit
+  bool grouped_ = true;                   // pending_ holds each unit's readings contiguous
+  std::uint32_t last_pending_unit_ = 0;
   std::string last_id_;
   std::uint32_t last_index_ = 0;
   bool have_last_ = false;
