@@ -8,6 +8,8 @@
 #include <filesystem>
 #include <set>
 
+#include "photolot/number_format.h"
+
 namespace photolot::report {
 namespace {
 
@@ -308,20 +310,6 @@ void add_pairs(Content& c, const PairsSection& p) {
 }
 
 }  // namespace
-
-std::string format_ohm(double ohm) {
-  if (!std::isfinite(ohm)) return kDash;
-  // Three significant figures, trailing zeros kept so a column reads evenly (25.0 kΩ, not 25 kΩ).
-  const auto three = [](double v) {
-    const double a = std::abs(v);
-    const int decimals = a >= 99.95 ? 0 : a >= 9.995 ? 1 : 2;
-    return fmt::format("{:.{}f}", v, decimals);
-  };
-  const double a = std::abs(ohm);
-  if (a >= 999.5e3) return three(ohm / 1e6) + " M\u03a9";
-  if (a >= 999.5) return three(ohm / 1e3) + " k\u03a9";
-  return three(ohm) + " \u03a9";
-}
 
 Content build_content(const SummaryInput& in) {
   Content c;

@@ -8,6 +8,7 @@
 
 #include "geometry.h"
 #include "photolot/curve.h"
+#include "photolot/number_format.h"
 #include "photolot/report/summary.h"
 #include "photolot/spec.h"
 
@@ -72,7 +73,7 @@ struct Content {
 
 Content build_content(const SummaryInput& input);
 
-// Number formatting shared by the tables and the plots' labels (fmt; never the C locale).
-std::string format_ohm(double ohm);  // "20.1 kΩ", "4.70 MΩ", "—" for NaN
+// Resistances in the tables and the plots' labels: photolot::format_ohm (number_format.h),
+// "20.1 kΩ", "4.70 MΩ", "—" for NaN.
 
 }  // namespace photolot::report
