@@ -13,6 +13,7 @@
 #include "photolot/report/summary.h"
 #include "photolot/spec.h"
 #include "photolot/statistics.h"
+#include "test_support.h"
 
 namespace photolot::test {
 
@@ -52,7 +53,6 @@ struct PdfInfo {
 };
 PdfInfo pdf_info(const std::filesystem::path& pdf);
 
-// pdftotext joins or splits words at line ends; compare with runs of whitespace collapsed.
-std::string collapse_space(const std::string& text);
+// collapse_space (test_support.h) evens out pdftotext's line breaks for comparisons.
 
 }  // namespace photolot::test

@@ -50,6 +50,8 @@ struct Content {
 
   std::vector<KeyValue> spec;        // the purchase spec
   std::vector<KeyValue> conditions;  // test conditions and what the logs show
+  // How the curves were read: the model per unit, the temperature handling, the bench profile.
+  std::vector<KeyValue> models;
   Table statistics;
   std::string statistics_note;
   Table nonconforming;
