@@ -13,7 +13,6 @@
 #include "photolot/report/summary.h"
 #include "photolot/spec.h"
 #include "photolot/statistics.h"
-#include "test_support.h"
 
 namespace photolot::test {
 
@@ -53,6 +52,6 @@ struct PdfInfo {
 };
 PdfInfo pdf_info(const std::filesystem::path& pdf);
 
-// collapse_space (test_support.h) evens out pdftotext's line breaks for comparisons.
+// collapse_space (tests/support/test_support.h) evens out pdftotext's line breaks.
 
 }  // namespace photolot::test
