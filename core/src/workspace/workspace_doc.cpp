@@ -11,6 +11,8 @@
 #include <system_error>
 #include <utility>
 
+#include "../io/json_text.h"
+
 namespace photolot::workspace {
 namespace {
 
@@ -26,19 +28,6 @@ struct Bad {
   std::string field;
   std::string message;
 };
-
-std::pair<std::uint32_t, std::uint32_t> line_column(std::string_view text, std::size_t offset) {
-  std::uint32_t line = 1, column = 1;
-  for (std::size_t i = 0; i < offset && i < text.size(); ++i) {
-    if (text[i] == '\n') {
-      ++line;
-      column = 1;
-    } else if ((static_cast<unsigned char>(text[i]) & 0xC0) != 0x80) {
-      ++column;  // columns count characters: UTF-8 continuation bytes do not start one
-    }
-  }
-  return {line, column};
-}
 
 std::string type_name(const Json& v) { return v.is_null() ? "null" : std::string(v.type_name()); }
 
@@ -280,32 +269,12 @@ ParseResult parse(std::string_view text, const fs::path& folder_in) {
   const fs::path folder = absolute_folder(folder_in);
   Json j;
   bool too_deep = false;
-  try {
-    j = Json::parse(
-        text.begin(), text.end(),
-        [&too_deep](int depth, Json::parse_event_t, Json&) {
-          if (depth > kMaxDepth) too_deep = true;
-          return !too_deep;
-        });
-  } catch (const Json::parse_error& e) {
-    // byte is the 1-based position of the character where parsing stopped.
-    auto [line, column] = line_column(text, e.byte > 0 ? e.byte - 1 : 0);
-    std::string message = e.what();
-    if (auto pos = message.find(": "); pos != std::string::npos) message = message.substr(pos + 2);
-    result.error = Error{line, column, "", "not valid JSON: " + message};
-    return result;
-  } catch (const Json::exception& e) {
-    // A number beyond a double (1e400) is out_of_range: nlohmann names the token, not its
-    // place; its first occurrence is where it stands.
-    std::string message = e.what();
-    if (auto pos = message.find("] "); pos != std::string::npos) message = message.substr(pos + 2);
-    std::uint32_t line = 0, column = 0;
-    if (auto open = message.find('\''); open != std::string::npos) {
-      const std::string token = message.substr(open + 1, message.rfind('\'') - open - 1);
-      if (auto at = text.find(token); !token.empty() && at != std::string_view::npos)
-        std::tie(line, column) = line_column(text, at);
-    }
-    result.error = Error{line, column, "", "not valid JSON: " + message};
+  const auto depth_guard = [&too_deep](int depth, Json::parse_event_t, Json&) {
+    if (depth > kMaxDepth) too_deep = true;
+    return !too_deep;
+  };
+  if (auto e = json_text::parse(text, j, depth_guard)) {
+    result.error = Error{e->line, e->column, "", std::move(e->message)};
     return result;
   }
   if (too_deep) {
