@@ -14,7 +14,6 @@
 #include <QObject>
 #include <QString>
 #include <QTimer>
-
 #include <functional>
 #include <memory>
 #include <string>

@@ -1,5 +1,7 @@
 #include "source_check_dialog.h"
 
+#include <fmt/format.h>
+
 #include <QDialogButtonBox>
 #include <QFileInfo>
 #include <QHeaderView>
@@ -8,8 +10,6 @@
 #include <QPushButton>
 #include <QTreeWidget>
 #include <QVBoxLayout>
-
-#include <fmt/format.h>
 
 namespace photolot::workbench {
 
@@ -32,8 +32,9 @@ QString where_text(const SourceRow& row) {
 
 QString state_text(const SourceRow& row) {
   if (row.usable()) {
-    return QObject::tr("file, %1").arg(QLocale::c().formattedDataSize(
-        static_cast<qint64>(row.check.bytes), 1, QLocale::DataSizeSIFormat));
+    return QObject::tr("file, %1")
+        .arg(QLocale::c().formattedDataSize(static_cast<qint64>(row.check.bytes), 1,
+                                            QLocale::DataSizeSIFormat));
   }
   return QString::fromStdString(row.check.detail);
 }
@@ -51,11 +52,11 @@ SourceCheckDialog::SourceCheckDialog(const QString& workspace_path,
     outside += r.check.outside_folder;
     unusable += !r.usable();
   }
-  auto* intro = new QLabel(
-      tr("<b>%1</b> names these bench logs. None has been read yet: check them before "
-         "photolot opens any.")
-          .arg(QFileInfo(workspace_path).fileName().toHtmlEscaped()),
-      this);
+  auto* intro =
+      new QLabel(tr("<b>%1</b> names these bench logs. None has been read yet: check them before "
+                    "photolot opens any.")
+                     .arg(QFileInfo(workspace_path).fileName().toHtmlEscaped()),
+                 this);
   intro->setWordWrap(true);
   layout->addWidget(intro);
 
@@ -87,12 +88,16 @@ SourceCheckDialog::SourceCheckDialog(const QString& workspace_path,
   QStringList notes;
   if (rows.empty()) notes << tr("The workspace names no bench logs.");
   if (outside) {
-    notes << tr("%n file(s) lie outside the workspace's folder: open them only if you expected "
-                "this workspace to read them.", "", outside);
+    notes << tr(
+        "%n file(s) lie outside the workspace's folder: open them only if you expected "
+        "this workspace to read them.",
+        "", outside);
   }
   if (unusable) {
-    notes << tr("%n file(s) cannot be read (shown in red). Put them back beside the workspace, "
-                "or open the logs themselves.", "", unusable);
+    notes << tr(
+        "%n file(s) cannot be read (shown in red). Put them back beside the workspace, "
+        "or open the logs themselves.",
+        "", unusable);
   }
   for (const auto& w : warnings) notes << QString::fromStdString(w);
   summary_ = new QLabel(notes.join(QLatin1Char('\n')), this);

@@ -6,7 +6,6 @@
 
 #include <QDialog>
 #include <QString>
-
 #include <vector>
 
 #include "photolot/workspace_doc.h"

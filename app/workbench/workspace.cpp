@@ -2,7 +2,6 @@
 
 #include <QFileInfo>
 #include <QSaveFile>
-
 #include <filesystem>
 
 #include "engine.h"
@@ -115,7 +114,8 @@ QString save_workspace(const QString& path, const Workspace& workspace) {
 
 QString load_workspace(const QString& path, Workspace& workspace) {
   workspace::ParseResult read = workspace::load(to_path(QFileInfo(path).absoluteFilePath()));
-  if (!read.ok()) return QString::fromStdString(workspace::to_string(*read.error, path.toStdString()));
+  if (!read.ok())
+    return QString::fromStdString(workspace::to_string(*read.error, path.toStdString()));
   if (auto e = from_document(std::move(read.doc), workspace)) {
     return QObject::tr("%1: %2").arg(path, QString::fromStdString(*e));
   }

@@ -4,12 +4,10 @@
 #pragma once
 
 #include <QString>
-
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
 #include <vector>
-
-#include <nlohmann/json.hpp>
 
 #include "photolot/fitting/fit.h"
 #include "photolot/import.h"
@@ -38,7 +36,8 @@ struct Workspace {
   WorkspaceView view;
   nlohmann::json spec;     // null until the spec step lands
   nlohmann::json results;  // the results document, null until it lands
-  std::vector<std::string> warnings;  // what loading set aside (a results member that does not read)
+  std::vector<std::string>
+      warnings;  // what loading set aside (a results member that does not read)
 };
 
 // The fit options to the choices a workspace saves, and back: a choice not saved keeps the

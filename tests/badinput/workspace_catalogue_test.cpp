@@ -134,7 +134,8 @@ TEST(BadWorkspace, W14AControlCharacterInAPathIsRefused) {
 }
 
 TEST(BadWorkspace, W15ASourceListedTwiceIsReadOnce) {
-  const auto r = load_text(kHead + R"("sources": [{"path": "a.csv"}, {"path": "./logs/../a.csv"}]})");
+  const auto r =
+      load_text(kHead + R"("sources": [{"path": "a.csv"}, {"path": "./logs/../a.csv"}]})");
   ASSERT_TRUE(r.ok());
   EXPECT_EQ(r.doc.sources.size(), 1u);
   ASSERT_EQ(r.doc.warnings.size(), 1u);

@@ -3,15 +3,14 @@
 // it and the next start offers it back; a clean save or exit leaves none.
 #include "autosave.h"
 
+#include <gtest/gtest.h>
+
 #include <QCoreApplication>
 #include <QDialog>
 #include <QElapsedTimer>
 #include <QFileInfo>
 #include <QMessageBox>
 #include <QTabWidget>
-
-#include <gtest/gtest.h>
-
 #include <filesystem>
 #include <memory>
 
@@ -60,7 +59,8 @@ TEST_F(AutosaveTest, ACopyLeftByACrashedRunIsOfferedAndRestoresTheState) {
     crashed->selectUnits({1, 3});
     crashed->tabs()->setCurrentIndex(2);
     ASSERT_TRUE(crashed->hasUnsavedChanges());
-    ASSERT_TRUE(crashed->autosave()->saveNow().isEmpty()) << crashed->autosave()->lastError().toStdString();
+    ASSERT_TRUE(crashed->autosave()->saveNow().isEmpty())
+        << crashed->autosave()->lastError().toStdString();
     ASSERT_TRUE(crashed->autosave()->hasCopy());
     // The copy is a workspace document that core's reader takes.
     const auto read = workspace::load(crashed->autosave()->copyPath().toStdString());

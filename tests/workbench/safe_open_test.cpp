@@ -2,17 +2,15 @@
 // resolved against its folder and shown before any is read; those outside the folder are
 // marked; Cancel reads nothing; hostile paths (escaping the folder, absolute, devices, pipes,
 // too long, control characters) get a clear message and are never read.
+#include <gtest/gtest.h>
+#include <sys/stat.h>
+
 #include <QApplication>
 #include <QDialog>
 #include <QLabel>
 #include <QPushButton>
 #include <QTimer>
 #include <QTreeWidget>
-
-#include <gtest/gtest.h>
-
-#include <sys/stat.h>
-
 #include <filesystem>
 #include <fstream>
 #include <functional>
@@ -115,10 +113,9 @@ TEST(SafeOpen, MarksAFileOutsideTheWorkspacesFolder) {
   test::write_log(dir / "elsewhere" / "other.csv", test::small_lot_spec());
   // A link inside the folder to a file outside it is outside too, once followed.
   fs::create_symlink(dir / "elsewhere" / "outside.csv", dir / "ws" / "link.csv");
-  const QString ws = write_workspace(
-      dir / "ws" / "lot.photolot",
-      {"inside.csv", "../elsewhere/outside.csv", (dir / "elsewhere" / "other.csv").string(),
-       "link.csv"});
+  const QString ws = write_workspace(dir / "ws" / "lot.photolot",
+                                     {"inside.csv", "../elsewhere/outside.csv",
+                                      (dir / "elsewhere" / "other.csv").string(), "link.csv"});
   MainWindow window;
   Shown shown;
   when_the_list_shows(&shown, false);
@@ -217,10 +214,11 @@ TEST(SafeOpen, PathsClimbingOutOfTheFolderAreMarkedOutside) {
   test::write_log(dir / "top.csv", test::small_lot_spec());
   const fs::path ws_dir = dir / "a" / "b" / "c";
   Workspace w;
-  ASSERT_TRUE(workspace_from_text(workspace_naming({"../../../top.csv", "../../../../../../../../x"}),
-                                  QString::fromStdString(ws_dir.string()), w)
-                  .value_or("")
-                  .empty());
+  ASSERT_TRUE(
+      workspace_from_text(workspace_naming({"../../../top.csv", "../../../../../../../../x"}),
+                          QString::fromStdString(ws_dir.string()), w)
+          .value_or("")
+          .empty());
   const auto rows = look_at_sources(w, QString::fromStdString(ws_dir.string()));
   ASSERT_EQ(rows.size(), 2u);
   EXPECT_EQ(fs::path(rows[0].source.path), dir / "top.csv");

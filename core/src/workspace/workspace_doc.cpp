@@ -144,7 +144,8 @@ Source read_source(const Json& s, std::size_t i, const fs::path& folder) {
   source.path = (given.is_absolute() ? given : folder / given).lexically_normal();
   if (source.path.native().size() > kMaxPathBytes) {
     throw Bad{at + ".path", fmt::format("resolves to a path of {} bytes; paths over {} bytes are "
-                                        "refused", source.path.native().size(), kMaxPathBytes)};
+                                        "refused",
+                                        source.path.native().size(), kMaxPathBytes)};
   }
   if (source.path.filename().empty()) throw Bad{at + ".path", "names a folder, not a file"};
   source.outside_folder = !under(source.path, folder);
@@ -215,8 +216,8 @@ void read_document(const Json& j, const fs::path& folder, Document& doc) {
   const auto version = int_member(j, "version", "version");
   if (!version) throw Bad{"version", "is missing"};
   if (*version < 1 || *version > kVersion) {
-    throw Bad{"version", fmt::format("{} is not supported (this build reads 1 to {})", *version,
-                                     kVersion)};
+    throw Bad{"version",
+              fmt::format("{} is not supported (this build reads 1 to {})", *version, kVersion)};
   }
   doc.saved_by = text_member(j, "saved_by", "saved_by");
   if (const Json* sources = member(j, "sources")) {
@@ -229,8 +230,8 @@ void read_document(const Json& j, const fs::path& folder, Document& doc) {
     for (std::size_t i = 0; i < sources->size(); ++i) {
       Source s = read_source((*sources)[i], i, folder);
       if (!seen.insert(s.path).second) {
-        doc.warnings.push_back(fmt::format("sources[{}]: '{}' is listed twice; read once", i,
-                                           s.stored_path));
+        doc.warnings.push_back(
+            fmt::format("sources[{}]: '{}' is listed twice; read once", i, s.stored_path));
         continue;
       }
       doc.sources.push_back(std::move(s));
@@ -242,8 +243,8 @@ void read_document(const Json& j, const fs::path& folder, Document& doc) {
   if (member(j, "spec")) {
     const Json& spec = object_member(j, "spec", "spec");
     if (!member(spec, "toml")) throw Bad{"spec.toml", "is missing"};
-    doc.spec = SpecSection{text_member(spec, "file", "spec.file"),
-                           text_member(spec, "toml", "spec.toml")};
+    doc.spec =
+        SpecSection{text_member(spec, "file", "spec.file"), text_member(spec, "toml", "spec.toml")};
   }
   if (const Json* r = member(j, "results")) {
     const results::ReadResult read = results::from_json(*r);
@@ -278,8 +279,10 @@ ParseResult parse(std::string_view text, const fs::path& folder_in) {
     return result;
   }
   if (too_deep) {
-    result.error = Error{0, 0, "", fmt::format("values are nested more than {} levels deep; "
-                                               "not a photolot workspace", kMaxDepth)};
+    result.error = Error{0, 0, "",
+                         fmt::format("values are nested more than {} levels deep; "
+                                     "not a photolot workspace",
+                                     kMaxDepth)};
     return result;
   }
   try {
@@ -305,8 +308,10 @@ ParseResult load(const fs::path& file) {
   }
   const std::uint64_t size = fs::file_size(file, ec);
   if (!ec && size > kMaxFileBytes) {
-    result.error = Error{0, 0, "", fmt::format("is {} bytes; a workspace over {} bytes is refused "
-                                               "unread", size, kMaxFileBytes)};
+    result.error = Error{0, 0, "",
+                         fmt::format("is {} bytes; a workspace over {} bytes is refused "
+                                     "unread",
+                                     size, kMaxFileBytes)};
     return result;
   }
   std::ifstream in(file, std::ios::binary);
