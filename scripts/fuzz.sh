@@ -14,7 +14,7 @@ cd "$(dirname "$0")/.."
 seconds=${1:-${PHOTOLOT_FUZZ_SECONDS:-60}}
 shift || true
 targets=("$@")
-[ ${#targets[@]} -eq 0 ] && targets=(import spec results)
+[ ${#targets[@]} -eq 0 ] && targets=(import spec results workspace)
 build=${PHOTOLOT_FUZZ_DIR:-build-fuzz}
 generator=()
 command -v ninja >/dev/null && [ ! -f "$build/Makefile" ] && generator=(-G Ninja)
