@@ -19,7 +19,8 @@ if(PHOTOLOT_FUZZ)
   if(NOT CMAKE_CXX_COMPILER_ID STREQUAL "Clang")
     message(FATAL_ERROR "PHOTOLOT_FUZZ needs clang (CC=clang-14 CXX=clang++-14)")
   endif()
-  # Coverage for libFuzzer everywhere; the fuzz programs add -fsanitize=fuzzer for its main.
+  # Coverage for libFuzzer everywhere (the test programs of the same build carry it too, at a
+  # small cost, so one sanitizer build serves both); the fuzz programs add -fsanitize=fuzzer.
   target_compile_options(photolot_warnings INTERFACE
     -fsanitize=fuzzer-no-link,address,undefined -fno-omit-frame-pointer
     -fno-sanitize-recover=undefined)
