@@ -15,7 +15,7 @@ cd "$(dirname "$0")/.."
 seconds=${1:-${PHOTOLOT_FUZZ_SECONDS:-60}}
 shift || true
 targets=("$@")
-[ ${#targets[@]} -eq 0 ] && targets=(import spec results)
+[ ${#targets[@]} -eq 0 ] && targets=(import spec results workspace)
 build=${PHOTOLOT_SANITIZE_DIR:-build-sanitize}
 ./scripts/build-sanitize.sh "${targets[@]/#/fuzz_}"
 work=$(mktemp -d)

@@ -17,6 +17,7 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
+#include <QLocale>
 #include <QMenuBar>
 #include <QMessageBox>
 #include <QMimeData>
@@ -43,8 +44,10 @@
 #include "help_text.h"
 #include "import_dialog.h"
 #include "acceptance_view.h"
+#include "autosave.h"
 #include "pairs_view.h"
 #include "photolot/results.h"
+#include "source_check_dialog.h"
 #include "spec_toml.h"
 #include "spread_view.h"
 #include "unit_table_model.h"
@@ -75,6 +78,18 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   setObjectName(QStringLiteral("photolotMainWindow"));
   setWindowIcon(QIcon(QStringLiteral(":/photolot/icons/photolot.svg")));
   setAcceptDrops(true);
+  autosave_ = new Autosave(
+      [this] {
+        Autosave::Snapshot snap;
+        if (!isWindowModified() || session_.sources().empty()) return snap;
+        const QString folder = workspace_path_.isEmpty()
+                                   ? Autosave::folder()
+                                   : QFileInfo(workspace_path_).absolutePath();
+        snap.text = workspace_to_text(currentWorkspace(), folder);
+        snap.workspace_path = workspace_path_;
+        return snap;
+      },
+      this);
   model_ = new UnitTableModel(this);
   filter_ = new UnitFilterModel(this);
   filter_->setSourceModel(model_);
@@ -394,18 +409,67 @@ bool MainWindow::openWorkspace(const QString& path) {
   if (!maybeSave()) return false;
   Workspace workspace;
   if (QString error = load_workspace(path, workspace); !error.isEmpty()) {
-    QMessageBox::critical(this, tr("Open workspace"), error);
+    tellUser(QMessageBox::Critical, tr("Open workspace"), error);
     return false;
   }
-  const auto changes = changed_sources(workspace);
-  QStringList missing, changed;
-  for (const auto& c : changes) (c.missing ? missing : changed) << QString::fromStdString(c.path);
-  if (!missing.isEmpty()) {
-    QMessageBox::critical(this, tr("Open workspace"),
-                          tr("These bench logs of the workspace cannot be read:\n%1\n\nPut them "
-                             "back (or beside the workspace) and open it again.")
-                              .arg(missing.join(QLatin1Char('\n'))));
+  if (!openWorkspaceDocument(path, std::move(workspace), QFileInfo(path).absolutePath())) {
     return false;
+  }
+  rememberRecent(path);
+  QSettings().setValue("folders/workspace", QFileInfo(path).absolutePath());
+  return true;
+}
+
+void MainWindow::tellUser(QMessageBox::Icon icon, const QString& title, const QString& text) {
+  if (message_sink_) {
+    message_sink_(text);
+    return;
+  }
+  QMessageBox box(icon, title, text, QMessageBox::Ok, this);
+  box.exec();
+}
+
+bool MainWindow::openWorkspaceDocument(const QString& path, Workspace workspace,
+                                       const QString& folder) {
+  // Nothing is read before the user has seen, resolved, every file the workspace names.
+  const std::vector<SourceRow> rows = look_at_sources(workspace, folder);
+  QStringList unreadable;
+  for (const auto& r : rows) {
+    if (!r.usable()) {
+      unreadable << QStringLiteral("%1 (%2)").arg(QString::fromStdString(r.source.path),
+                                                   state_text(r));
+    }
+  }
+  bool accepted = false;
+  if (source_answer_) {
+    accepted = source_answer_ == QDialog::Accepted;
+    if (accepted && !unreadable.isEmpty()) {
+      tellUser(QMessageBox::Critical, tr("Open workspace"),
+               tr("These bench logs of the workspace cannot be read:\n%1\n\nPut them back (or "
+                  "beside the workspace) and open it again.")
+                   .arg(unreadable.join(QLatin1Char('\n'))));
+      return false;
+    }
+  } else {
+    SourceCheckDialog dialog(path, rows, workspace.warnings, this);
+    accepted = dialog.exec() == QDialog::Accepted;
+  }
+  if (!accepted) {
+    status_text_->setText(tr("Did not open %1: nothing was read.").arg(QFileInfo(path).fileName()));
+    return false;
+  }
+  std::vector<SourceFile> sources;
+  QStringList changed;
+  for (const auto& r : rows) {
+    auto [file, error] = read_source_file(r.source.path);
+    if (!error.empty()) {
+      tellUser(QMessageBox::Critical, tr("Open workspace"), QString::fromStdString(error));
+      return false;
+    }
+    if (!r.source.sha256_hex.empty() && file.sha256_hex != r.source.sha256_hex) {
+      changed << QString::fromStdString(r.source.path);
+    }
+    sources.push_back(std::move(file));
   }
   if (!changed.isEmpty()) {
     QMessageBox box(QMessageBox::Question, tr("Source logs changed"),
@@ -421,8 +485,6 @@ bool MainWindow::openWorkspace(const QString& path) {
       return false;
     }
   }
-  std::vector<SourceFile> sources;
-  for (const auto& s : workspace.sources) sources.push_back(read_source_file(s.path).first);
   session_.setSources(std::move(sources));
   session_.setImportOptions(workspace.import_options);
   session_.setFitOptions(workspace.fit_options);
@@ -435,9 +497,9 @@ bool MainWindow::openWorkspace(const QString& path) {
       spec = loaded.spec;
       spec->source_file = workspace.spec.value("file", "");
     } else {
-      QMessageBox::warning(this, tr("Open workspace"),
-                           tr("The workspace's spec does not load: %1")
-                               .arg(QString::fromStdString(to_string(loaded.errors.front()))));
+      tellUser(QMessageBox::Warning, tr("Open workspace"),
+               tr("The workspace's spec does not load: %1")
+                   .arg(QString::fromStdString(to_string(loaded.errors.front()))));
     }
   }
   session_.setSpec(spec);
@@ -463,10 +525,62 @@ bool MainWindow::openWorkspace(const QString& path) {
   // numbers that were saved whenever the logs are unchanged.
   session_.run();
   workspace_path_ = QFileInfo(path).absoluteFilePath();
-  rememberRecent(path);
-  QSettings().setValue("folders/workspace", QFileInfo(path).absolutePath());
   setModified(!changed.isEmpty());
   updateTitle();
+  return true;
+}
+
+bool MainWindow::offerRecovery() {
+  const auto orphans = Autosave::orphans();
+  if (orphans.empty()) return false;
+  const Autosave::Orphan& o = orphans.front();
+  const QString when = QLocale().toString(o.saved_at, QLocale::ShortFormat);
+  int answer = recovery_answer_;
+  if (!answer) {
+    QMessageBox box(QMessageBox::Question, tr("Recover unsaved work"),
+                    tr("Recover unsaved work from %1?").arg(when), QMessageBox::NoButton, this);
+    box.setInformativeText(
+        o.workspace_path.isEmpty()
+            ? tr("photolot did not close cleanly, and a copy of a lot that was never saved was "
+                 "kept. Recover shows the bench logs it reads before reading them.")
+            : tr("photolot did not close cleanly, and a copy of the unsaved changes to %1 was "
+                 "kept. Recover shows the bench logs it reads before reading them.")
+                  .arg(QFileInfo(o.workspace_path).fileName()));
+    QPushButton* recover = box.addButton(tr("Recover"), QMessageBox::AcceptRole);
+    box.addButton(QMessageBox::Discard);
+    box.setDefaultButton(recover);
+    box.exec();
+    answer = box.clickedButton() == recover ? QMessageBox::Yes : QMessageBox::Discard;
+  }
+  if (answer != QMessageBox::Yes) {
+    Autosave::remove(o);
+    return false;
+  }
+  QFile file(o.path);
+  if (!file.open(QIODevice::ReadOnly)) {
+    tellUser(QMessageBox::Critical, tr("Recover unsaved work"),
+             tr("cannot read the recovery copy '%1': %2").arg(o.path, file.errorString()));
+    return false;
+  }
+  const QByteArray text = file.readAll();
+  const QString folder = o.workspace_path.isEmpty() ? Autosave::folder()
+                                                    : QFileInfo(o.workspace_path).absolutePath();
+  Workspace workspace;
+  if (auto error = workspace_from_text(std::string_view(text.constData(), text.size()), folder,
+                                       workspace)) {
+    tellUser(QMessageBox::Critical, tr("Recover unsaved work"),
+             tr("The recovery copy '%1' does not read (it is kept): %2")
+                 .arg(o.path, QString::fromStdString(*error)));
+    return false;
+  }
+  // Cancelling the list of files keeps the copy for the next start.
+  if (!openWorkspaceDocument(o.path, std::move(workspace), folder)) return false;
+  workspace_path_ = o.workspace_path;
+  setModified(true);
+  updateTitle();
+  autosave_->saveNow();  // this run's own copy first, then the old one goes
+  if (autosave_->hasCopy()) Autosave::remove(o);
+  status_text_->setText(tr("Recovered the unsaved work of %1. Save it to keep it.").arg(when));
   return true;
 }
 
@@ -979,7 +1093,15 @@ void MainWindow::updateCountLabel() {
   count_label_->setText(tr("%1 of %2 units shown, %3 selected").arg(shown).arg(total).arg(selected));
 }
 
-void MainWindow::setModified(bool modified) { setWindowModified(modified); }
+void MainWindow::setModified(bool modified) {
+  setWindowModified(modified);
+  // Unsaved work gets a recovery copy; saved or discarded work needs none.
+  if (modified) {
+    autosave_->markDirty();
+  } else {
+    autosave_->discard();
+  }
+}
 
 void MainWindow::updateTitle() {
   QString name = tr("untitled");
@@ -1002,6 +1124,7 @@ void MainWindow::closeEvent(QCloseEvent* event) {
   settings.setValue("window/state", saveState());
   settings.setValue("window/splitter", splitter_->saveState());
   settings.setValue("window/unitTable", table_->horizontalHeader()->saveState());
+  autosave_->discard();  // a clean exit: the work was saved or thrown away on purpose
   event->accept();
 }
 

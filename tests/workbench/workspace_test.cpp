@@ -76,16 +76,32 @@ TEST(Workspace, NoticesAChangedOrMissingSource) {
 
 TEST(Workspace, RefusesAnotherFormatAndNamesTheBadField) {
   Workspace w;
-  EXPECT_TRUE(workspace_from_json(nlohmann::json{{"format", "other"}}, ".", w).has_value());
-  const auto wrong = workspace_from_json(
-      nlohmann::json{{"format", "photolot-workspace"}, {"version", 1}, {"fit", {{"loss", "l2"}}}},
-      ".", w);
+  EXPECT_TRUE(workspace_from_text(R"({"format": "other"})", ".", w).has_value());
+  const auto wrong = workspace_from_text(
+      R"({"format": "photolot-workspace", "version": 1, "fit": {"loss": "l2"}})", ".", w);
   ASSERT_TRUE(wrong.has_value());
   EXPECT_NE(wrong->find("fit.loss"), std::string::npos);
-  const auto newer = workspace_from_json(
-      nlohmann::json{{"format", "photolot-workspace"}, {"version", 99}}, ".", w);
+  const auto newer =
+      workspace_from_text(R"({"format": "photolot-workspace", "version": 99})", ".", w);
   ASSERT_TRUE(newer.has_value());
   EXPECT_NE(newer->find("99"), std::string::npos);
+}
+
+TEST(Workspace, RefusesFitChoicesTheFitWouldRefuse) {
+  // FitOptions::validate() decides; a confidence of 1.5 is no probability.
+  Workspace w;
+  const auto bad = workspace_from_text(
+      R"({"format": "photolot-workspace", "version": 1, "fit": {"confidence": 1.5}})", ".", w);
+  ASSERT_TRUE(bad.has_value());
+  EXPECT_NE(bad->find("confidence"), std::string::npos) << *bad;
+}
+
+TEST(Workspace, ABrokenFileIsRefusedAtItsLineAndColumn) {
+  const auto dir = photolot::test::scratch_dir();
+  std::ofstream(dir / "cut.photolot") << "{\n  \"format\": \"photolot-workspace\",\n  \"version\": 1,\n  \"sources\": [tru";
+  Workspace w;
+  const QString error = load_workspace(QString::fromStdString((dir / "cut.photolot").string()), w);
+  EXPECT_TRUE(error.contains(QStringLiteral("cut.photolot:4:")) ) << error.toStdString();
 }
 
 TEST(Workspace, SaveLeavesNoTemporaryFileAndReplacesTheOldOne) {
