@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
-# Builds the libFuzzer targets (clang-14, ASan + UBSan, core only) into build-fuzz/ (or
-# $PHOTOLOT_FUZZ_DIR) and runs each for a bounded time, starting from its seed corpus in
-# tests/fuzz/corpus/<target>/. Run by CI after the sanitizer stage.
+# Builds the libFuzzer targets (clang-14, ASan + UBSan) in the sanitizer build (build-sanitize/
+# or $PHOTOLOT_SANITIZE_DIR; scripts/build-sanitize.sh) and runs each for a bounded time,
+# starting from its seed corpus in tests/fuzz/corpus/<target>/. Run by CI after the sanitizer
+# stage, whose build it reuses: only the fuzz programs' own files are compiled again.
 #
 #   ./scripts/fuzz.sh                 # every target, 60 s each (CI)
 #   ./scripts/fuzz.sh 3600 import     # one target for an hour (docs/hardening.md)
@@ -14,13 +15,9 @@ cd "$(dirname "$0")/.."
 seconds=${1:-${PHOTOLOT_FUZZ_SECONDS:-60}}
 shift || true
 targets=("$@")
-[ ${#targets[@]} -eq 0 ] && targets=(import spec results)
-build=${PHOTOLOT_FUZZ_DIR:-build-fuzz}
-generator=()
-command -v ninja >/dev/null && [ ! -f "$build/Makefile" ] && generator=(-G Ninja)
-CC=clang-14 CXX=clang++-14 cmake -S . -B "$build" "${generator[@]}" -DPHOTOLOT_FUZZ=ON \
-  -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
-cmake --build "$build" -j "${PHOTOLOT_JOBS:-2}" --target "${targets[@]/#/fuzz_}"
+[ ${#targets[@]} -eq 0 ] && targets=(import spec results workspace)
+build=${PHOTOLOT_SANITIZE_DIR:-build-sanitize}
+./scripts/build-sanitize.sh "${targets[@]/#/fuzz_}"
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 export UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1

@@ -228,7 +228,9 @@ int run_analyze(AnalyzeConfig& config) {
                           &stats,
                           acceptance ? &*acceptance : nullptr,
                           spec ? &verdicts : nullptr,
-                          pairing ? &*pairing : nullptr};
+                          pairing ? &*pairing : nullptr,
+                          config.model.options.bench ? &*config.model.options.bench : nullptr,
+                          config.model.bench_path};
     if (auto err = write_report(config.report, content); !err.empty()) {
       print_err(err + "\n");
       return kExitInputError;

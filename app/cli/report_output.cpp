@@ -21,6 +21,8 @@ std::string write_report(const ReportArgs& args, const ReportContent& c) {
   in.stats = c.stats;
   in.acceptance = c.acceptance;
   in.verdicts = c.verdicts;
+  in.bench = c.bench;
+  in.bench_profile_file = c.bench_path;
   in.page_size = args.paper == "letter" ? report::PageSize::letter : report::PageSize::a4;
   // The part number as ordered is the spec's unless the command line gives one.
   in.header.part = !args.part.empty() ? args.part : (c.spec ? c.spec->part_number : "");
@@ -38,8 +40,7 @@ std::string write_report(const ReportArgs& args, const ReportContent& c) {
         to_string(p.proof));
     int n = 0;
     for (const auto& pair : p.pairs)
-      section.rows.push_back(
-          report::PairRow{++n, pair.a_id, pair.b_id, pair.tracking_error_pct});
+      section.rows.push_back(report::PairRow{++n, pair.a_id, pair.b_id, pair.tracking_error_pct});
     section.unpaired = p.unpaired.size();
     section.tolerance_pct = p.options.tolerance_pct;
     in.pairs = std::move(section);

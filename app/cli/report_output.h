@@ -8,6 +8,7 @@
 
 #include "option_groups.h"
 #include "photolot/acceptance.h"
+#include "photolot/bench_profile.h"
 #include "photolot/pairing.h"
 #include "photolot/statistics.h"
 
@@ -25,6 +26,8 @@ struct ReportContent {
   const Acceptance* acceptance = nullptr;
   const std::vector<UnitVerdict>* verdicts = nullptr;
   const Pairing* pairing = nullptr;
+  const BenchProfile* bench = nullptr;  // the --bench profile the fit used, if any
+  std::string bench_path;
 };
 
 // Writes the summary to args.path (through a temporary file and a rename). Empty on success;

@@ -10,42 +10,10 @@
 #include <cstdlib>
 #include <map>
 
+#include "photolot/number_format.h"
+
 namespace photolot::cli {
 namespace {
-
-struct Scaled {
-  double value;        // in units of the prefix
-  const char* prefix;  // "", "k", "M", ...
-  double factor;
-};
-
-Scaled engineering(double ohm) {
-  static constexpr std::array<std::pair<double, const char*>, 6> kPrefixes{
-      {{1e-3, "m"}, {1, ""}, {1e3, "k"}, {1e6, "M"}, {1e9, "G"}, {1e12, "T"}}};
-  double a = std::fabs(ohm);
-  // Round to three significant digits first, so 999.96 becomes 1.00 k rather than 1000.
-  if (a > 0) {
-    double digits = std::floor(std::log10(a));
-    double step = std::pow(10.0, digits - 2);
-    a = std::round(a / step) * step;
-  }
-  std::size_t i = 1;
-  if (a > 0) {
-    i = 0;
-    while (i + 1 < kPrefixes.size() && a >= kPrefixes[i + 1].first * 0.9995) ++i;
-  }
-  return {ohm / kPrefixes[i].first, kPrefixes[i].second, kPrefixes[i].first};
-}
-
-// Three significant digits for a value in [1, 1000).
-int decimals_for(double scaled) {
-  double a = std::fabs(scaled);
-  if (a >= 99.95) return 0;
-  if (a >= 9.995) return 1;
-  return 2;
-}
-
-std::string ohm_symbol(const TextStyle& style) { return style.unicode ? "Ω" : "ohm"; }
 
 // Display width of UTF-8 text: code points (every character we print is one column wide).
 std::size_t width(std::string_view s) {
@@ -80,18 +48,14 @@ bool environment_is_utf8() {
   return false;
 }
 
+OhmFormat ohm_format(const TextStyle& style) { return {.unicode = style.unicode, .missing = "-"}; }
+
 std::string format_ohm(double ohm, const TextStyle& style) {
-  if (!std::isfinite(ohm)) return "-";
-  Scaled s = engineering(ohm);
-  return fmt::format("{:.{}f} {}{}", s.value, decimals_for(s.value), s.prefix, ohm_symbol(style));
+  return photolot::format_ohm(ohm, ohm_format(style));
 }
 
 std::string format_ohm_range(double lo, double hi, double reference, const TextStyle& style) {
-  if (!std::isfinite(lo) || !std::isfinite(hi)) return "-";
-  Scaled s = engineering(std::isfinite(reference) ? reference : hi);
-  int d = decimals_for(s.value);
-  return fmt::format("{:.{}f}{}{:.{}f} {}{}", lo / s.factor, d, style.unicode ? "–" : "-",
-                     hi / s.factor, d, s.prefix, ohm_symbol(style));
+  return photolot::format_ohm_range(lo, hi, reference, ohm_format(style));
 }
 
 std::string unit_table(const std::vector<UnitFit>& units, const TextStyle& style) {

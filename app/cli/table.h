@@ -7,6 +7,7 @@
 
 #include "photolot/fit_result.h"
 #include "photolot/lot.h"
+#include "photolot/number_format.h"
 
 namespace photolot::cli {
 
@@ -17,8 +18,9 @@ struct TextStyle {
 // True when the environment's character type (LC_ALL, LC_CTYPE, LANG) says UTF-8.
 bool environment_is_utf8();
 
-// Resistance with an engineering prefix and three significant digits: "18.7 kΩ", "2.10 MΩ",
-// "470 Ω" (ASCII: "18.7 kohm"). "-" when not finite.
+// The shared formatter (photolot/number_format.h) in the table's style: "18.7 kΩ", "2.10 MΩ",
+// "470 Ω" (ASCII: "18.7 kohm"); "-" when not finite.
+OhmFormat ohm_format(const TextStyle& style);
 std::string format_ohm(double ohm, const TextStyle& style);
 // An interval in the prefix of `reference`: "18.5–18.9 kΩ".
 std::string format_ohm_range(double lo, double hi, double reference, const TextStyle& style);

@@ -84,6 +84,10 @@ QString help_html() {
              "in one file (<tt>*.photolot</tt>). When a log has changed since, opening the "
              "workspace says so and offers to reload it. The file is written to a temporary "
              "file first and then renamed, so a crash never leaves half a workspace.</p>"
+             "<p>Opening a workspace first lists the logs it will read, with any outside the "
+             "workspace's folder marked; nothing is read until you choose <b>Read These "
+             "Files</b>. Unsaved work is copied aside every minute; if photolot stops without "
+             "closing, the next start offers to recover it.</p>"
              "<h3>Long work</h3>"
              "<p>Import and fitting run in the background: the window stays usable, the status "
              "bar shows progress, and <b>Cancel</b> (Esc) stops the run.</p>") +

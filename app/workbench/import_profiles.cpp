@@ -2,7 +2,7 @@
 
 #include <QSettings>
 
-#include "workspace.h"
+#include "photolot/workspace_doc.h"
 
 namespace photolot::workbench {
 namespace {
@@ -22,16 +22,16 @@ std::optional<ImportOptions> ImportProfiles::load(const QString& name) const {
   settings.beginGroup(kGroup);
   const QString text = settings.value(name).toString();
   if (text.isEmpty()) return std::nullopt;
-  const auto j = nlohmann::json::parse(text.toStdString(), nullptr, false);
+  const auto j = results::Json::parse(text.toStdString(), nullptr, false);
   ImportOptions options;
-  if (j.is_discarded() || from_json(j, options)) return std::nullopt;
+  if (j.is_discarded() || workspace::from_json(j, options)) return std::nullopt;
   return options;
 }
 
 void ImportProfiles::save(const QString& name, const ImportOptions& options) {
   QSettings settings;
   settings.beginGroup(kGroup);
-  settings.setValue(name, QString::fromStdString(to_json(options).dump()));
+  settings.setValue(name, QString::fromStdString(workspace::to_json(options).dump()));
 }
 
 void ImportProfiles::remove(const QString& name) {

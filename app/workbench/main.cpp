@@ -73,12 +73,13 @@ int main(int argc, char** argv) {
   window.show();
   const QStringList files = parser.positionalArguments();
   const QString spec = parser.value(spec_option);
-  if (!files.isEmpty() || !spec.isEmpty()) {
-    QTimer::singleShot(0, &window, [&window, files, spec] {
-      if (!files.isEmpty()) window.openPaths(files);
-      if (!spec.isEmpty()) window.openSpecFile(spec);
-    });
-  }
+  const bool snapshot = parser.isSet(snapshot_option);
+  QTimer::singleShot(0, &window, [&window, files, spec, snapshot] {
+    // Work a run that did not end cleanly left behind is offered first (autosave.h).
+    if (!snapshot) window.offerRecovery();
+    if (!files.isEmpty()) window.openPaths(files);
+    if (!spec.isEmpty()) window.openSpecFile(spec);
+  });
   if (parser.isSet(snapshot_option)) {
     window.resize(1440, 900);
     const QString dir = parser.value(snapshot_option);

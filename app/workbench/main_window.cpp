@@ -1,5 +1,7 @@
 #include "main_window.h"
 
+#include <fmt/format.h>
+
 #include <QAction>
 #include <QApplication>
 #include <QCheckBox>
@@ -18,6 +20,7 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
+#include <QLocale>
 #include <QMenuBar>
 #include <QMessageBox>
 #include <QMimeData>
@@ -33,20 +36,19 @@
 #include <QToolBar>
 #include <QTreeWidget>
 #include <QVBoxLayout>
-
 #include <cmath>
 #include <unordered_map>
 
-#include <fmt/format.h>
-
+#include "acceptance_view.h"
+#include "autosave.h"
 #include "curves_view.h"
 #include "diagnostics_list.h"
 #include "fit_handling.h"
 #include "help_text.h"
 #include "import_dialog.h"
-#include "acceptance_view.h"
 #include "pairs_view.h"
 #include "photolot/results.h"
+#include "source_check_dialog.h"
 #include "spec_toml.h"
 #include "spread_view.h"
 #include "unit_table_model.h"
@@ -77,6 +79,18 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   setObjectName(QStringLiteral("photolotMainWindow"));
   setWindowIcon(QIcon(QStringLiteral(":/photolot/icons/photolot.svg")));
   setAcceptDrops(true);
+  autosave_ = new Autosave(
+      [this] {
+        Autosave::Snapshot snap;
+        if (!isWindowModified() || session_.sources().empty()) return snap;
+        const QString folder = workspace_path_.isEmpty()
+                                   ? Autosave::folder()
+                                   : QFileInfo(workspace_path_).absolutePath();
+        snap.text = workspace_to_text(currentWorkspace(), folder);
+        snap.workspace_path = workspace_path_;
+        return snap;
+      },
+      this);
   model_ = new UnitTableModel(this);
   filter_ = new UnitFilterModel(this);
   filter_->setSourceModel(model_);
@@ -96,8 +110,9 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   connect(&session_, &AnalysisSession::analysisFinished, this, &MainWindow::onAnalysisFinished);
   connect(&session_, &AnalysisSession::pairingFinished, this, &MainWindow::onPairingFinished);
   connect(&session_, &AnalysisSession::cancelled, this, [this] {
-    showResult(tr("Stopped. The results shown are from the last finished run; "
-                  "Analysis ▸ Refit runs it again."));
+    showResult(
+        tr("Stopped. The results shown are from the last finished run; "
+           "Analysis ▸ Refit runs it again."));
   });
   connect(&session_, &AnalysisSession::inputsChanged, this, [this] {
     if (!session_.sources().empty()) setModified(true);
@@ -127,8 +142,8 @@ void MainWindow::buildLayout() {
   status_filter_ = new QComboBox(left);
   status_filter_->addItems({tr("All fits"), tr("Fitted"), tr("Not fitted"), tr("Flagged")});
   verdict_filter_ = new QComboBox(left);
-  verdict_filter_->addItems({tr("All verdicts"), tr("Conforming"), tr("Nonconforming"),
-                             tr("No verdict")});
+  verdict_filter_->addItems(
+      {tr("All verdicts"), tr("Conforming"), tr("Nonconforming"), tr("No verdict")});
   auto* filters = new QHBoxLayout;
   filters->addWidget(filter_text_, 1);
   filters->addWidget(status_filter_);
@@ -179,7 +194,8 @@ void MainWindow::buildLayout() {
   pairs_ = new PairsView(tabs_);
   import_log_ = new QTreeWidget(tabs_);
   import_log_->setObjectName(QStringLiteral("importLog"));
-  import_log_->setHeaderLabels({tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
+  import_log_->setHeaderLabels(
+      {tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
   import_log_->setRootIsDecorated(false);
   tabs_->addTab(curves_, tr("Curves"));
   tabs_->addTab(spread_, tr("Spread"));
@@ -272,7 +288,8 @@ void MainWindow::buildActions() {
   quit->setMenuRole(QAction::QuitRole);
 
   QMenu* edit = menuBar()->addMenu(tr("&Edit"));
-  auto* select_all = edit->addAction(tr("Select &All Units"), this, [this] { table_->selectAll(); });
+  auto* select_all =
+      edit->addAction(tr("Select &All Units"), this, [this] { table_->selectAll(); });
   select_all->setShortcut(QKeySequence::SelectAll);
   auto* find = edit->addAction(tr("&Find Unit"), this, [this] {
     filter_text_->setFocus();
@@ -384,7 +401,8 @@ void MainWindow::openLogs(const QStringList& paths, bool ask) {
     options = dialog.options();
   }
   for (const auto& s : sources) rememberRecent(QString::fromStdString(s.path));
-  QSettings().setValue("folders/logs", QFileInfo(QString::fromStdString(sources[0].path)).absolutePath());
+  QSettings().setValue("folders/logs",
+                       QFileInfo(QString::fromStdString(sources[0].path)).absolutePath());
   workspace_path_.clear();
   pending_selection_.clear();
   session_.setSources(std::move(sources));
@@ -405,18 +423,67 @@ bool MainWindow::openWorkspace(const QString& path) {
   if (!maybeSave()) return false;
   Workspace workspace;
   if (QString error = load_workspace(path, workspace); !error.isEmpty()) {
-    QMessageBox::critical(this, tr("Open workspace"), error);
+    tellUser(QMessageBox::Critical, tr("Open workspace"), error);
     return false;
   }
-  const auto changes = changed_sources(workspace);
-  QStringList missing, changed;
-  for (const auto& c : changes) (c.missing ? missing : changed) << QString::fromStdString(c.path);
-  if (!missing.isEmpty()) {
-    QMessageBox::critical(this, tr("Open workspace"),
-                          tr("These bench logs of the workspace cannot be read:\n%1\n\nPut them "
-                             "back (or beside the workspace) and open it again.")
-                              .arg(missing.join(QLatin1Char('\n'))));
+  if (!openWorkspaceDocument(path, std::move(workspace), QFileInfo(path).absolutePath())) {
     return false;
+  }
+  rememberRecent(path);
+  QSettings().setValue("folders/workspace", QFileInfo(path).absolutePath());
+  return true;
+}
+
+void MainWindow::tellUser(QMessageBox::Icon icon, const QString& title, const QString& text) {
+  if (message_sink_) {
+    message_sink_(text);
+    return;
+  }
+  QMessageBox box(icon, title, text, QMessageBox::Ok, this);
+  box.exec();
+}
+
+bool MainWindow::openWorkspaceDocument(const QString& path, Workspace workspace,
+                                       const QString& folder) {
+  // Nothing is read before the user has seen, resolved, every file the workspace names.
+  const std::vector<SourceRow> rows = look_at_sources(workspace, folder);
+  QStringList unreadable;
+  for (const auto& r : rows) {
+    if (!r.usable()) {
+      unreadable << QStringLiteral("%1 (%2)").arg(QString::fromStdString(r.source.path),
+                                                  state_text(r));
+    }
+  }
+  bool accepted = false;
+  if (source_answer_) {
+    accepted = source_answer_ == QDialog::Accepted;
+    if (accepted && !unreadable.isEmpty()) {
+      tellUser(QMessageBox::Critical, tr("Open workspace"),
+               tr("These bench logs of the workspace cannot be read:\n%1\n\nPut them back (or "
+                  "beside the workspace) and open it again.")
+                   .arg(unreadable.join(QLatin1Char('\n'))));
+      return false;
+    }
+  } else {
+    SourceCheckDialog dialog(path, rows, workspace.warnings, this);
+    accepted = dialog.exec() == QDialog::Accepted;
+  }
+  if (!accepted) {
+    status_text_->setText(tr("Did not open %1: nothing was read.").arg(QFileInfo(path).fileName()));
+    return false;
+  }
+  std::vector<SourceFile> sources;
+  QStringList changed;
+  for (const auto& r : rows) {
+    auto [file, error] = read_source_file(r.source.path);
+    if (!error.empty()) {
+      tellUser(QMessageBox::Critical, tr("Open workspace"), QString::fromStdString(error));
+      return false;
+    }
+    if (!r.source.sha256_hex.empty() && file.sha256_hex != r.source.sha256_hex) {
+      changed << QString::fromStdString(r.source.path);
+    }
+    sources.push_back(std::move(file));
   }
   if (!changed.isEmpty()) {
     QMessageBox box(QMessageBox::Question, tr("Source logs changed"),
@@ -432,8 +499,6 @@ bool MainWindow::openWorkspace(const QString& path) {
       return false;
     }
   }
-  std::vector<SourceFile> sources;
-  for (const auto& s : workspace.sources) sources.push_back(read_source_file(s.path).first);
   session_.setSources(std::move(sources));
   session_.setImportOptions(workspace.import_options);
   session_.setFitOptions(workspace.fit_options);
@@ -448,9 +513,9 @@ bool MainWindow::openWorkspace(const QString& path) {
       spec = loaded.spec;
       spec->source_file = workspace.spec.value("file", "");
     } else {
-      QMessageBox::warning(this, tr("Open workspace"),
-                           tr("The workspace's spec does not load: %1")
-                               .arg(QString::fromStdString(to_string(loaded.errors.front()))));
+      tellUser(QMessageBox::Warning, tr("Open workspace"),
+               tr("The workspace's spec does not load: %1")
+                   .arg(QString::fromStdString(to_string(loaded.errors.front()))));
     }
   }
   session_.setSpec(spec);
@@ -476,17 +541,70 @@ bool MainWindow::openWorkspace(const QString& path) {
   // numbers that were saved whenever the logs are unchanged.
   session_.run();
   workspace_path_ = QFileInfo(path).absoluteFilePath();
-  rememberRecent(path);
-  QSettings().setValue("folders/workspace", QFileInfo(path).absolutePath());
   setModified(!changed.isEmpty());
   updateTitle();
+  return true;
+}
+
+bool MainWindow::offerRecovery() {
+  const auto orphans = Autosave::orphans();
+  if (orphans.empty()) return false;
+  const Autosave::Orphan& o = orphans.front();
+  const QString when = QLocale().toString(o.saved_at, QLocale::ShortFormat);
+  int answer = recovery_answer_;
+  if (!answer) {
+    QMessageBox box(QMessageBox::Question, tr("Recover unsaved work"),
+                    tr("Recover unsaved work from %1?").arg(when), QMessageBox::NoButton, this);
+    box.setInformativeText(
+        o.workspace_path.isEmpty()
+            ? tr("photolot did not close cleanly, and a copy of a lot that was never saved was "
+                 "kept. Recover shows the bench logs it reads before reading them.")
+            : tr("photolot did not close cleanly, and a copy of the unsaved changes to %1 was "
+                 "kept. Recover shows the bench logs it reads before reading them.")
+                  .arg(QFileInfo(o.workspace_path).fileName()));
+    QPushButton* recover = box.addButton(tr("Recover"), QMessageBox::AcceptRole);
+    box.addButton(QMessageBox::Discard);
+    box.setDefaultButton(recover);
+    box.exec();
+    answer = box.clickedButton() == recover ? QMessageBox::Yes : QMessageBox::Discard;
+  }
+  if (answer != QMessageBox::Yes) {
+    Autosave::remove(o);
+    return false;
+  }
+  QFile file(o.path);
+  if (!file.open(QIODevice::ReadOnly)) {
+    tellUser(QMessageBox::Critical, tr("Recover unsaved work"),
+             tr("cannot read the recovery copy '%1': %2").arg(o.path, file.errorString()));
+    return false;
+  }
+  const QByteArray text = file.readAll();
+  const QString folder =
+      o.workspace_path.isEmpty() ? Autosave::folder() : QFileInfo(o.workspace_path).absolutePath();
+  Workspace workspace;
+  if (auto error =
+          workspace_from_text(std::string_view(text.constData(), text.size()), folder, workspace)) {
+    tellUser(QMessageBox::Critical, tr("Recover unsaved work"),
+             tr("The recovery copy '%1' does not read (it is kept): %2")
+                 .arg(o.path, QString::fromStdString(*error)));
+    return false;
+  }
+  // Cancelling the list of files keeps the copy for the next start.
+  if (!openWorkspaceDocument(o.path, std::move(workspace), folder)) return false;
+  workspace_path_ = o.workspace_path;
+  setModified(true);
+  updateTitle();
+  autosave_->saveNow();  // this run's own copy first, then the old one goes
+  if (autosave_->hasCopy()) Autosave::remove(o);
+  status_text_->setText(tr("Recovered the unsaved work of %1. Save it to keep it.").arg(when));
   return true;
 }
 
 Workspace MainWindow::currentWorkspace() const {
   Workspace w;
   for (const auto& s : session_.sources()) {
-    w.sources.push_back({s.path, s.sha256_hex, static_cast<std::uint64_t>(s.content.size())});
+    w.sources.push_back(
+        {s.path, s.sha256_hex, static_cast<std::uint64_t>(s.content.size()), {}, false});
   }
   w.import_options = session_.importOptions();
   w.fit_options = session_.fitOptions();
@@ -506,9 +624,11 @@ Workspace MainWindow::currentWorkspace() const {
     results::ResultsDocument doc = results::make_document(imported->lot, *fit);
     doc.with_residuals = true;  // the curves and residual plots come back without a refit
     if (const auto analysis = session_.analysis()) {
-      doc.sections["statistics"] = results::Json::parse(lot_statistics_json(analysis->statistics).dump());
+      doc.sections["statistics"] =
+          results::Json::parse(lot_statistics_json(analysis->statistics).dump());
       if (analysis->acceptance) {
-        doc.sections["acceptance"] = results::Json::parse(acceptance_json(*analysis->acceptance).dump());
+        doc.sections["acceptance"] =
+            results::Json::parse(acceptance_json(*analysis->acceptance).dump());
       }
     }
     if (const auto pairing = session_.pairing()) {
@@ -540,7 +660,8 @@ bool MainWindow::save() {
 }
 
 bool MainWindow::saveAs() {
-  const QString folder = QSettings().value("folders/workspace", QSettings().value("folders/logs")).toString();
+  const QString folder =
+      QSettings().value("folders/workspace", QSettings().value("folders/logs")).toString();
   QString path = QFileDialog::getSaveFileName(this, tr("Save workspace"), folder,
                                               tr("photolot workspace (*.photolot)"));
   if (path.isEmpty()) return false;
@@ -614,7 +735,8 @@ void MainWindow::editFitOptions() {
   model->addItem(tr("Power law"), static_cast<int>(fitting::ModelChoice::power_law));
   model->addItem(tr("Dark conductance in parallel"),
                  static_cast<int>(fitting::ModelChoice::dark_conductance));
-  model->addItem(tr("Choose per unit (lower AICc)"), static_cast<int>(fitting::ModelChoice::choose));
+  model->addItem(tr("Choose per unit (lower AICc)"),
+                 static_cast<int>(fitting::ModelChoice::choose));
   model->setCurrentIndex(model->findData(static_cast<int>(current_model.model)));
   auto* temperature = new QComboBox(&dialog);
   temperature->addItem(tr("Fit where identifiable, else the spec's coefficient"),
@@ -636,16 +758,16 @@ void MainWindow::editFitOptions() {
   auto* bench_choose = new QPushButton(tr("Choose…"), &dialog);
   auto* bench_clear = new QPushButton(tr("None"), &dialog);
   connect(bench_choose, &QPushButton::clicked, &dialog, [&] {
-    const QString path = QFileDialog::getOpenFileName(
-        &dialog, tr("Bench profile"), QSettings().value("folders/spec").toString(),
-        tr("Bench profile (*.toml);;All files (*)"));
+    const QString path = QFileDialog::getOpenFileName(&dialog, tr("Bench profile"),
+                                                      QSettings().value("folders/spec").toString(),
+                                                      tr("Bench profile (*.toml);;All files (*)"));
     if (path.isEmpty()) return;
     BenchProfileResult loaded = load_bench_profile(path.toStdString());
     if (!loaded.ok()) {
       const FileError& e = *loaded.error;
-      QMessageBox::critical(&dialog, tr("Bench profile"),
-                            QString::fromStdString(fmt::format("{}:{}:{}: {}", e.file, e.line,
-                                                               e.column, e.message)));
+      QMessageBox::critical(
+          &dialog, tr("Bench profile"),
+          QString::fromStdString(fmt::format("{}:{}:{}: {}", e.file, e.line, e.column, e.message)));
       return;
     }
     bench = loaded.profile;
@@ -722,9 +844,9 @@ void MainWindow::printSummary() {
     status_text_->setText(tr("Open and fit a lot first: the summary is of its fitted curves."));
     return;
   }
-  QString path = QFileDialog::getSaveFileName(
-      this, tr("Save lot summary"), QSettings().value("folders/export").toString(),
-      tr("PDF document (*.pdf)"));
+  QString path = QFileDialog::getSaveFileName(this, tr("Save lot summary"),
+                                              QSettings().value("folders/export").toString(),
+                                              tr("PDF document (*.pdf)"));
   if (path.isEmpty()) return;
   if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".pdf");
   if (const QString error = writeSummaryTo(path); !error.isEmpty()) {
@@ -755,9 +877,8 @@ QString MainWindow::writeSummaryTo(const QString& path) {
   if (pairing) {
     report::PairsSection pairs;
     const PairOptions& o = pairing->options;
-    pairs.method = fmt::format(
-        "{} tracking error over {:g}-{:g} lx, exact maximum matching ({})",
-        to_string(o.mode), o.lux_lo, o.lux_hi, to_string(pairing->proof));
+    pairs.method = fmt::format("{} tracking error over {:g}-{:g} lx, exact maximum matching ({})",
+                               to_string(o.mode), o.lux_lo, o.lux_hi, to_string(pairing->proof));
     pairs.tolerance_pct = o.tolerance_pct;
     pairs.unpaired = pairing->unpaired.size();
     int n = 0;
@@ -827,11 +948,20 @@ void MainWindow::onProgress(AnalysisSession::Step step, qint64 done, qint64 tota
   if (!session_.busy()) return;
   QString what;
   switch (step) {
-    case AnalysisSession::Step::import: what = tr("Importing"); break;
-    case AnalysisSession::Step::fit: what = tr("Fitting"); break;
-    case AnalysisSession::Step::analysis: what = tr("Judging the lot"); break;
-    case AnalysisSession::Step::pairing: what = tr("Pairing"); break;
-    case AnalysisSession::Step::idle: return;
+    case AnalysisSession::Step::import:
+      what = tr("Importing");
+      break;
+    case AnalysisSession::Step::fit:
+      what = tr("Fitting");
+      break;
+    case AnalysisSession::Step::analysis:
+      what = tr("Judging the lot");
+      break;
+    case AnalysisSession::Step::pairing:
+      what = tr("Pairing");
+      break;
+    case AnalysisSession::Step::idle:
+      return;
   }
   if (total <= 0) {
     progress_->setRange(0, 0);
@@ -868,8 +998,8 @@ void MainWindow::onImportFinished() {
   if (name.isEmpty() && !session_.sources().empty()) {
     name = QFileInfo(QString::fromStdString(session_.sources()[0].path)).completeBaseName();
   }
-  lot_label_->setText(tr("Lot %1 — %n unit(s)", "", static_cast<int>(result->lot.units.size()))
-                          .arg(name));
+  lot_label_->setText(
+      tr("Lot %1 — %n unit(s)", "", static_cast<int>(result->lot.units.size())).arg(name));
   if (!result->errors.empty()) {
     showResult(QString::fromStdString(result->errors.front().message));
     tabs_->setCurrentWidget(import_log_);
@@ -897,7 +1027,8 @@ void MainWindow::onFitFinished() {
   acceptance_->setLotLoaded(fit != nullptr);
   // Select again what was selected (by unit id), or the first unit of a new lot.
   std::unordered_map<std::string, int> by_id;
-  for (std::size_t i = 0; i < result->lot.units.size(); ++i) by_id[result->lot.units[i].id] = int(i);
+  for (std::size_t i = 0; i < result->lot.units.size(); ++i)
+    by_id[result->lot.units[i].id] = int(i);
   std::vector<int> units;
   for (const auto& id : keep) {
     if (auto it = by_id.find(id); it != by_id.end()) units.push_back(it->second);
@@ -931,8 +1062,9 @@ void MainWindow::onAnalysisFinished() {
                                                 : UnitVerdictKind::nonconforming;
       QStringList reasons;
       for (const auto& r : v.reasons) reasons << QString::fromStdString(r.text);
-      t.text = v.verdict == Verdict::conforming ? tr("pass")
-                                                : tr("fail: %1").arg(reasons.join(QStringLiteral("; ")));
+      t.text = v.verdict == Verdict::conforming
+                   ? tr("pass")
+                   : tr("fail: %1").arg(reasons.join(QStringLiteral("; ")));
       verdicts.push_back(std::move(t));
     }
   }
@@ -940,13 +1072,16 @@ void MainWindow::onAnalysisFinished() {
   verdict_filter_->setEnabled(model_->verdictsAvailable());
   std::optional<std::pair<double, double>> r10, gamma, r10_ti, gamma_ti;
   if (const auto& spec = session_.spec()) {
-    if (spec->r10_ohm.has_min() && spec->r10_ohm.has_max()) r10 = {{spec->r10_ohm.min, spec->r10_ohm.max}};
-    if (spec->gamma.has_min() && spec->gamma.has_max()) gamma = {{spec->gamma.min, spec->gamma.max}};
+    if (spec->r10_ohm.has_min() && spec->r10_ohm.has_max())
+      r10 = {{spec->r10_ohm.min, spec->r10_ohm.max}};
+    if (spec->gamma.has_min() && spec->gamma.has_max())
+      gamma = {{spec->gamma.min, spec->gamma.max}};
   }
   if (analysis) {
     const auto& st = analysis->statistics;
     if (std::isfinite(st.ln_r10.tolerance_interval[0])) {
-      r10_ti = {{std::exp(st.ln_r10.tolerance_interval[0]), std::exp(st.ln_r10.tolerance_interval[1])}};
+      r10_ti = {
+          {std::exp(st.ln_r10.tolerance_interval[0]), std::exp(st.ln_r10.tolerance_interval[1])}};
     }
     if (std::isfinite(st.gamma.tolerance_interval[0])) {
       gamma_ti = {{st.gamma.tolerance_interval[0], st.gamma.tolerance_interval[1]}};
@@ -963,16 +1098,17 @@ void MainWindow::onPairingFinished() {
 }
 
 void MainWindow::openSpec() {
-  const QString path = QFileDialog::getOpenFileName(
-      this, tr("Open spec"), QSettings().value("folders/spec").toString(),
-      tr("photolot spec (*.toml);;All files (*)"));
+  const QString path = QFileDialog::getOpenFileName(this, tr("Open spec"),
+                                                    QSettings().value("folders/spec").toString(),
+                                                    tr("photolot spec (*.toml);;All files (*)"));
   if (!path.isEmpty()) openSpecFile(path);
 }
 
 bool MainWindow::openSpecFile(const QString& path) {
   QFile file(path);
   if (!file.open(QIODevice::ReadOnly)) {
-    QMessageBox::critical(this, tr("Open spec"), tr("cannot read '%1': %2").arg(path, file.errorString()));
+    QMessageBox::critical(this, tr("Open spec"),
+                          tr("cannot read '%1': %2").arg(path, file.errorString()));
     return false;
   }
   const std::string text = file.readAll().toStdString();
@@ -1009,7 +1145,8 @@ void MainWindow::saveSpec() {
   QSaveFile file(path);
   if (!file.open(QIODevice::WriteOnly) || file.write(text.data(), qint64(text.size())) < 0 ||
       !file.commit()) {
-    QMessageBox::critical(this, tr("Save spec"), tr("cannot write '%1': %2").arg(path, file.errorString()));
+    QMessageBox::critical(this, tr("Save spec"),
+                          tr("cannot write '%1': %2").arg(path, file.errorString()));
     return;
   }
   QSettings().setValue("folders/spec", QFileInfo(path).absolutePath());
@@ -1050,12 +1187,12 @@ void MainWindow::selectUnits(const std::vector<int>& units) {
   for (std::size_t i = 0; i < rows.size();) {
     std::size_t j = i;
     while (j + 1 < rows.size() && rows[j + 1] <= rows[j] + 1) ++j;
-    selection.append(QItemSelectionRange(filter_->index(rows[i], 0),
-                                         filter_->index(rows[j], last_column)));
+    selection.append(
+        QItemSelectionRange(filter_->index(rows[i], 0), filter_->index(rows[j], last_column)));
     i = j + 1;
   }
-  table_->selectionModel()->select(selection, QItemSelectionModel::ClearAndSelect |
-                                                  QItemSelectionModel::Rows);
+  table_->selectionModel()->select(selection,
+                                   QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
   // The first row, not selection.indexes(): that lists every cell of every range.
   if (!rows.empty()) table_->scrollTo(filter_->index(rows.front(), 0));
   selection_timer_.stop();
@@ -1082,10 +1219,19 @@ void MainWindow::updateCountLabel() {
   const int shown = filter_->rowCount();
   const int total = model_->rowCount();
   const int selected = static_cast<int>(table_->selectionModel()->selectedRows().size());
-  count_label_->setText(tr("%1 of %2 units shown, %3 selected").arg(shown).arg(total).arg(selected));
+  count_label_->setText(
+      tr("%1 of %2 units shown, %3 selected").arg(shown).arg(total).arg(selected));
 }
 
-void MainWindow::setModified(bool modified) { setWindowModified(modified); }
+void MainWindow::setModified(bool modified) {
+  setWindowModified(modified);
+  // Unsaved work gets a recovery copy; saved or discarded work needs none.
+  if (modified) {
+    autosave_->markDirty();
+  } else {
+    autosave_->discard();
+  }
+}
 
 void MainWindow::updateTitle() {
   QString name = tr("untitled");
@@ -1108,6 +1254,7 @@ void MainWindow::closeEvent(QCloseEvent* event) {
   settings.setValue("window/state", saveState());
   settings.setValue("window/splitter", splitter_->saveState());
   settings.setValue("window/unitTableV2", table_->horizontalHeader()->saveState());
+  autosave_->discard();  // a clean exit: the work was saved or thrown away on purpose
   event->accept();
 }
 

@@ -4,8 +4,10 @@
 #pragma once
 
 #include <QMainWindow>
+#include <QMessageBox>
 #include <QTimer>
 
+#include <functional>
 #include <memory>
 #include <vector>
 
@@ -27,6 +29,7 @@ class QTreeWidget;
 namespace photolot::workbench {
 
 class AcceptanceView;
+class Autosave;
 class CurvesView;
 class PairsView;
 class SpreadView;
@@ -43,7 +46,12 @@ class MainWindow : public QMainWindow {
   void openPaths(const QStringList& paths);
   // Opens logs, showing the import dialog first when ask is true.
   void openLogs(const QStringList& paths, bool ask);
+  // Safe open: the workspace is read and checked, then the bench logs it names are listed
+  // (source_check_dialog.h) and read only once the user accepts the list.
   bool openWorkspace(const QString& path);
+  // Offers back the newest recovery copy a run that did not end cleanly left (autosave.h):
+  // "Recover unsaved work from <time>?". True when work was recovered.
+  bool offerRecovery();
   // Loads and applies a spec file (TOML); false with a message box when it does not load.
   bool openSpecFile(const QString& path);
   // Starts pairing with the options shown in the pairs view.
@@ -74,7 +82,17 @@ class MainWindow : public QMainWindow {
   QString statusText() const;
   // Answers the unsaved-changes prompt without showing it (tests): Save, Discard or Cancel.
   void setPromptAnswerForTests(int standard_button) { prompt_answer_ = standard_button; }
-
+  // Answers the list of files a workspace reads without showing it (tests): QDialog::Accepted
+  // or QDialog::Rejected; 0 shows the dialog.
+  void setSourceAnswerForTests(int dialog_code) { source_answer_ = dialog_code; }
+  // Answers the recovery offer without showing it (tests): QMessageBox::Yes recovers,
+  // QMessageBox::Discard discards; 0 asks.
+  void setRecoveryAnswerForTests(int standard_button) { recovery_answer_ = standard_button; }
+  // Messages of the open and recovery steps go here instead of a message box (tests).
+  void setMessageSinkForTests(std::function<void(const QString&)> sink) {
+    message_sink_ = std::move(sink);
+  }
+  Autosave* autosave() const { return autosave_; }
  protected:
   void closeEvent(QCloseEvent* event) override;
   void dragEnterEvent(QDragEnterEvent* event) override;
@@ -117,6 +135,9 @@ class MainWindow : public QMainWindow {
   void updateTitle();
   void setModified(bool modified);
   Workspace currentWorkspace() const;
+  // The safe open's steps after the file was parsed; `folder` is what "outside" is judged by.
+  bool openWorkspaceDocument(const QString& path, Workspace workspace, const QString& folder);
+  void tellUser(QMessageBox::Icon icon, const QString& title, const QString& text);
 
   AnalysisSession session_;
   UnitTableModel* model_ = nullptr;
@@ -156,6 +177,10 @@ class MainWindow : public QMainWindow {
   std::string spec_toml_;  // the applied spec as written to a workspace
   std::vector<std::string> pending_selection_;  // unit ids to select when the fit arrives
   int prompt_answer_ = 0;
+  int source_answer_ = 0;
+  int recovery_answer_ = 0;
+  std::function<void(const QString&)> message_sink_;
+  Autosave* autosave_ = nullptr;
 };
 
 }  // namespace photolot::workbench

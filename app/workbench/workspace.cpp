@@ -1,179 +1,112 @@
 #include "workspace.h"
 
-#include <QDir>
-#include <QFile>
 #include <QFileInfo>
 #include <QSaveFile>
-
-#include <cmath>
+#include <filesystem>
 
 #include "engine.h"
 
 namespace photolot::workbench {
 namespace {
 
-std::string char_to_string(char c) { return c == 0 ? std::string() : std::string(1, c); }
+namespace fs = std::filesystem;
 
-std::optional<std::string> read_char(const nlohmann::json& j, const char* field, char& out) {
-  if (!j.contains(field)) return std::nullopt;
-  const auto& v = j.at(field);
-  if (!v.is_string() || v.get<std::string>().size() > 1) {
-    return std::string(field) + " must be a string of at most one character";
+fs::path to_path(const QString& folder) { return fs::path(folder.toStdString()); }
+
+// nlohmann::json and the ordered variant the core documents use are different types.
+nlohmann::json plain(const results::Json& j) { return nlohmann::json::parse(j.dump()); }
+results::Json ordered(const nlohmann::json& j) { return results::Json::parse(j.dump()); }
+
+workspace::Document to_document(const Workspace& w) {
+  workspace::Document doc;
+  for (const auto& s : w.sources) {
+    workspace::Source source;
+    source.path = fs::path(s.path);
+    source.sha256_hex = s.sha256_hex;
+    source.bytes = s.bytes;
+    doc.sources.push_back(std::move(source));
   }
-  const auto s = v.get<std::string>();
-  out = s.empty() ? 0 : s[0];
-  return std::nullopt;
+  doc.import_options = w.import_options;
+  doc.fit = fit_choices(w.fit_options);
+  doc.model = ordered(to_json(w.model));
+  doc.view = {w.view.selected_units, w.view.filter, w.view.tab};
+  if (w.spec.is_object()) {
+    doc.spec = workspace::SpecSection{w.spec.value("file", ""), w.spec.value("toml", "")};
+  }
+  if (!w.results.is_null()) doc.results = ordered(w.results);
+  return doc;
 }
 
-template <typename T>
-std::optional<std::string> read(const nlohmann::json& j, const char* field, T& out) {
-  if (!j.contains(field) || j.at(field).is_null()) return std::nullopt;
-  try {
-    out = j.at(field).get<T>();
-  } catch (const nlohmann::json::exception&) {
-    return std::string(field) + " has the wrong type";
+std::optional<std::string> from_document(workspace::Document doc, Workspace& w) {
+  Workspace out;
+  for (auto& s : doc.sources) {
+    out.sources.push_back(
+        {s.path.string(), s.sha256_hex, s.bytes, s.stored_path, s.outside_folder});
   }
+  out.import_options = doc.import_options;
+  if (auto e = apply_fit_choices(doc.fit, out.fit_options)) return e;
+  if (!doc.model.is_null()) {
+    if (auto e = from_json(plain(doc.model), out.model)) return "model: " + *e;
+  }
+  out.view = {doc.view.selected_units, doc.view.filter, doc.view.tab};
+  if (doc.spec) out.spec = {{"file", doc.spec->file}, {"toml", doc.spec->toml}};
+  if (!doc.results.is_null()) out.results = plain(doc.results);
+  out.warnings = std::move(doc.warnings);
+  w = std::move(out);
   return std::nullopt;
 }
 
 }  // namespace
 
-nlohmann::json to_json(const ImportOptions& o) {
-  nlohmann::json j;
-  j["delimiter"] = char_to_string(o.delimiter);
-  j["decimal"] = char_to_string(o.decimal);
-  j["id_column"] = o.id_column;
-  j["lux_column"] = o.lux_column;
-  j["ohm_column"] = o.ohm_column;
-  j["temp_column"] = o.temp_column;
-  j["lux_unit"] = o.lux_unit;
-  j["ohm_unit"] = o.ohm_unit;
-  j["temp_unit"] = o.temp_unit;
-  j["overload_ohm"] = std::isfinite(o.overload_ohm) ? nlohmann::json(o.overload_ohm) : nullptr;
-  j["default_unit_id"] = o.default_unit_id;
-  return j;
+workspace::FitChoices fit_choices(const fitting::FitOptions& o) {
+  workspace::FitChoices f;
+  f.loss = std::string(fitting::to_string(o.loss));
+  f.meter_accuracy_pct = o.meter_accuracy_pct;
+  f.outlier_threshold = o.outlier_threshold;
+  f.min_levels = o.min_levels;
+  f.min_span_decades = o.min_span_decades;
+  f.confidence = o.confidence;
+  f.over_range_bounds = o.over_range_bounds;
+  return f;
 }
 
-std::optional<std::string> from_json(const nlohmann::json& j, ImportOptions& o) {
-  if (!j.is_object()) return "import must be an object";
-  for (auto e : {read_char(j, "delimiter", o.delimiter), read_char(j, "decimal", o.decimal),
-                 read(j, "id_column", o.id_column), read(j, "lux_column", o.lux_column),
-                 read(j, "ohm_column", o.ohm_column), read(j, "temp_column", o.temp_column),
-                 read(j, "lux_unit", o.lux_unit), read(j, "ohm_unit", o.ohm_unit),
-                 read(j, "temp_unit", o.temp_unit), read(j, "overload_ohm", o.overload_ohm),
-                 read(j, "default_unit_id", o.default_unit_id)}) {
-    if (e) return "import." + *e;
-  }
-  return std::nullopt;
-}
-
-nlohmann::json to_json(const fitting::FitOptions& o) {
-  return {{"loss", std::string(fitting::to_string(o.loss))},
-          {"meter_accuracy_pct", o.meter_accuracy_pct},
-          {"outlier_threshold", o.outlier_threshold},
-          {"min_levels", o.min_levels},
-          {"min_span_decades", o.min_span_decades},
-          {"confidence", o.confidence}};
-}
-
-std::optional<std::string> from_json(const nlohmann::json& j, fitting::FitOptions& o) {
-  if (!j.is_object()) return "fit must be an object";
-  std::string loss;
-  for (auto e : {read(j, "loss", loss), read(j, "meter_accuracy_pct", o.meter_accuracy_pct),
-                 read(j, "outlier_threshold", o.outlier_threshold),
-                 read(j, "min_levels", o.min_levels),
-                 read(j, "min_span_decades", o.min_span_decades),
-                 read(j, "confidence", o.confidence)}) {
-    if (e) return "fit." + *e;
-  }
-  if (!loss.empty()) {
+std::optional<std::string> apply_fit_choices(const workspace::FitChoices& f,
+                                             fitting::FitOptions& options) {
+  fitting::FitOptions o = options;
+  if (f.loss) {
     bool known = false;
     for (auto l : {fitting::Loss::huber, fitting::Loss::cauchy, fitting::Loss::none}) {
-      if (fitting::to_string(l) == loss) {
+      if (fitting::to_string(l) == *f.loss) {
         o.loss = l;
         known = true;
       }
     }
-    if (!known) return "fit.loss = \"" + loss + "\" is not huber, cauchy or none";
+    if (!known) return "fit.loss = \"" + *f.loss + "\" is not huber, cauchy or none";
   }
+  if (f.meter_accuracy_pct) o.meter_accuracy_pct = *f.meter_accuracy_pct;
+  if (f.outlier_threshold) o.outlier_threshold = *f.outlier_threshold;
+  if (f.min_levels) o.min_levels = *f.min_levels;
+  if (f.min_span_decades) o.min_span_decades = *f.min_span_decades;
+  if (f.confidence) o.confidence = *f.confidence;
+  if (f.over_range_bounds) o.over_range_bounds = *f.over_range_bounds;
+  if (const std::string problem = o.validate(); !problem.empty()) return "fit: " + problem;
+  options = o;
   return std::nullopt;
 }
 
-nlohmann::json workspace_to_json(const Workspace& w, const QString& folder) {
-  nlohmann::json j;
-  j["format"] = kWorkspaceFormat;
-  j["version"] = kWorkspaceVersion;
-  j["saved_by"] = std::string("photolot ") + PHOTOLOT_VERSION;
-  const QDir dir(folder);
-  nlohmann::json sources = nlohmann::json::array();
-  for (const auto& s : w.sources) {
-    const QString absolute = QFileInfo(QString::fromStdString(s.path)).absoluteFilePath();
-    QString stored = dir.relativeFilePath(absolute);
-    if (stored.startsWith(QLatin1String(".."))) stored = absolute;  // outside: keep it whole
-    sources.push_back({{"path", stored.toStdString()}, {"sha256", s.sha256_hex}, {"bytes", s.bytes}});
-  }
-  j["sources"] = sources;
-  j["import"] = to_json(w.import_options);
-  j["fit"] = to_json(w.fit_options);
-  j["model"] = to_json(w.model);
-  j["view"] = {{"selected_units", w.view.selected_units},
-               {"filter", w.view.filter},
-               {"tab", w.view.tab}};
-  j["spec"] = w.spec;
-  j["results"] = w.results;
-  return j;
+std::string workspace_to_text(const Workspace& w, const QString& folder) {
+  return workspace::to_text(to_document(w), to_path(folder));
 }
 
-std::optional<std::string> workspace_from_json(const nlohmann::json& j, const QString& folder,
+std::optional<std::string> workspace_from_text(std::string_view text, const QString& folder,
                                                Workspace& w) {
-  if (!j.is_object() || j.value("format", "") != kWorkspaceFormat) {
-    return std::string("not a photolot workspace (\"format\" is not \"") + kWorkspaceFormat + "\")";
-  }
-  const int version = j.value("version", 0);
-  if (version < 1 || version > kWorkspaceVersion) {
-    return "workspace version " + std::to_string(version) + " is not supported (this build reads 1 to " +
-           std::to_string(kWorkspaceVersion) + ")";
-  }
-  w = Workspace{};
-  const QDir dir(folder);
-  if (j.contains("sources")) {
-    if (!j["sources"].is_array()) return "sources must be an array";
-    for (std::size_t i = 0; i < j["sources"].size(); ++i) {
-      const auto& s = j["sources"][i];
-      WorkspaceSource source;
-      if (!s.is_object() || !s.contains("path") || !s["path"].is_string()) {
-        return "sources[" + std::to_string(i) + "].path must be a string";
-      }
-      const QString stored = QString::fromStdString(s["path"].get<std::string>());
-      source.path = QDir::cleanPath(dir.absoluteFilePath(stored)).toStdString();
-      if (auto e = read(s, "sha256", source.sha256_hex)) return "sources[" + std::to_string(i) + "]." + *e;
-      if (auto e = read(s, "bytes", source.bytes)) return "sources[" + std::to_string(i) + "]." + *e;
-      w.sources.push_back(std::move(source));
-    }
-  }
-  if (j.contains("import")) {
-    if (auto e = from_json(j["import"], w.import_options)) return e;
-  }
-  if (j.contains("fit")) {
-    if (auto e = from_json(j["fit"], w.fit_options)) return e;
-  }
-  if (j.contains("model")) {
-    if (auto e = from_json(j["model"], w.model)) return e;
-  }
-  if (j.contains("view") && j["view"].is_object()) {
-    const auto& v = j["view"];
-    if (auto e = read(v, "selected_units", w.view.selected_units)) return "view." + *e;
-    if (auto e = read(v, "filter", w.view.filter)) return "view." + *e;
-    if (auto e = read(v, "tab", w.view.tab)) return "view." + *e;
-  }
-  w.spec = j.value("spec", nlohmann::json());
-  w.results = j.value("results", nlohmann::json());
-  return std::nullopt;
+  workspace::ParseResult read = workspace::parse(text, to_path(folder));
+  if (!read.ok()) return workspace::to_string(*read.error, "workspace");
+  return from_document(std::move(read.doc), w);
 }
 
 QString save_workspace(const QString& path, const Workspace& workspace) {
-  const nlohmann::json j = workspace_to_json(workspace, QFileInfo(path).absolutePath());
-  const std::string text = j.dump(2) + "\n";
+  const std::string text = workspace_to_text(workspace, QFileInfo(path).absolutePath());
   QSaveFile file(path);
   if (!file.open(QIODevice::WriteOnly)) {
     return QObject::tr("cannot write '%1': %2").arg(path, file.errorString());
@@ -184,22 +117,11 @@ QString save_workspace(const QString& path, const Workspace& workspace) {
 }
 
 QString load_workspace(const QString& path, Workspace& workspace) {
-  QFile file(path);
-  if (!file.open(QIODevice::ReadOnly)) {
-    return QObject::tr("cannot read '%1': %2").arg(path, file.errorString());
-  }
-  const QByteArray bytes = file.readAll();
-  nlohmann::json j;
-  try {
-    j = nlohmann::json::parse(bytes.constData(), bytes.constData() + bytes.size());
-  } catch (const nlohmann::json::parse_error& e) {
-    return QObject::tr("'%1' is not valid JSON (byte %2): %3")
-        .arg(path)
-        .arg(static_cast<qulonglong>(e.byte))
-        .arg(QString::fromUtf8(e.what()));
-  }
-  if (auto e = workspace_from_json(j, QFileInfo(path).absolutePath(), workspace)) {
-    return QObject::tr("'%1': %2").arg(path, QString::fromStdString(*e));
+  workspace::ParseResult read = workspace::load(to_path(QFileInfo(path).absoluteFilePath()));
+  if (!read.ok())
+    return QString::fromStdString(workspace::to_string(*read.error, path.toStdString()));
+  if (auto e = from_document(std::move(read.doc), workspace)) {
+    return QObject::tr("%1: %2").arg(path, QString::fromStdString(*e));
   }
   return {};
 }

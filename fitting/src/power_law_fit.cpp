@@ -13,10 +13,17 @@
 
 #include "photolot/fitting/fit.h"
 #include "photolot/fitting/models.h"
+#include "robust_loss.h"
 #include "unit_points.h"
 
 namespace photolot::fitting {
 namespace {
+
+using detail::fold;
+using detail::Folded;
+using detail::loss_terms;
+using detail::LossTerms;
+using detail::median_in_place;
 
 constexpr int kParameters = 2;  // ln R10, gamma
 constexpr int kMaxIterations = 100;
@@ -26,14 +33,6 @@ constexpr double kScatterCorner = 3.0;
 // The meter's loss scale in ln R: a reading within the meter's accuracy is a residual of at
 // most one scale unit.
 double meter_scale(const FitOptions& o) { return std::log1p(o.meter_accuracy_pct / 100.0); }
-
-// The median of v (reordered); v is not empty.
-double median_in_place(std::vector<double>& v) {
-  const auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
-  std::nth_element(v.begin(), mid, v.end());
-  if (v.size() % 2 == 1) return *mid;
-  return 0.5 * (*mid + *std::max_element(v.begin(), mid));
-}
 
 // Theil's abbreviated line (Theil 1950; from memory): with the points in order of
 // illuminance, the median of the slopes between point i and point i + n/2, then the median
@@ -72,62 +71,6 @@ double observed_scatter(const detail::UnitPoints& pts, const std::array<double, 
     a[i] = std::abs(pts.y[i] - (params[0] - params[1] * pts.x[i]));
   return 1.4826 * median_in_place(a) *
          std::sqrt(static_cast<double>(n) / static_cast<double>(n - kParameters));
-}
-
-// Robust losses on a whitened residual r (ln R residual / scale), corner at 1, in Ceres's
-// convention cost = 1/2 rho(r^2):
-//   Huber:  rho(s) = s for s <= 1, 2 sqrt(s) - 1 beyond
-//   Cauchy: rho(s) = ln(1 + s)
-//   none:   rho(s) = s
-// TinySolver minimises 1/2 sum f^2, so each residual is folded: f = sign(r) sqrt(rho(r^2)),
-// which has the same minimum. fold() returns f and df/dr.
-struct Folded {
-  double f;
-  double dfdr;
-};
-
-Folded fold(Loss loss, double r) {
-  switch (loss) {
-    case Loss::none:
-      return {r, 1.0};
-    case Loss::huber: {
-      const double a = std::abs(r);
-      if (a <= 1.0) return {r, 1.0};
-      const double f = std::sqrt(2.0 * a - 1.0);
-      return {std::copysign(f, r), 1.0 / f};
-    }
-    case Loss::cauchy: {
-      const double s = r * r;
-      if (s < 1e-16) return {r, 1.0};  // f = r (1 - s/4 + ...): exact to rounding here
-      const double f = std::sqrt(std::log1p(s));
-      return {std::copysign(f, r), std::abs(r) / ((1.0 + s) * f)};
-    }
-  }
-  return {r, 1.0};
-}
-
-// rho(r^2), the robust weight rho'(r^2) (what iteratively reweighted least squares would use),
-// psi(r) = rho'(r^2) r and psi'(r), all on the whitened residual.
-struct LossTerms {
-  double rho, weight, psi, dpsi;
-};
-
-LossTerms loss_terms(Loss loss, double r) {
-  const double s = r * r;
-  switch (loss) {
-    case Loss::none:
-      return {s, 1.0, r, 1.0};
-    case Loss::huber: {
-      const double a = std::abs(r);
-      if (a <= 1.0) return {s, 1.0, r, 1.0};
-      return {2.0 * a - 1.0, 1.0 / a, std::copysign(1.0, r), 0.0};
-    }
-    case Loss::cauchy: {
-      const double w = 1.0 / (1.0 + s);
-      return {std::log1p(s), w, w * r, (1.0 - s) * w * w};
-    }
-  }
-  return {s, 1.0, r, 1.0};
 }
 
 // The whitened, folded residuals of the power law for TinySolver, with their Jacobian

@@ -76,7 +76,7 @@ TEST(BadInputCatalogue, EveryRowHasItsTestAndEveryTestItsRow) {
   EXPECT_EQ(row_set.size(), rows.size()) << "an ID is used twice in docs/bad-input.md";
   std::set<std::string> tested;
   const auto* unit = ::testing::UnitTest::GetInstance();
-  const std::regex id(R"(^([LSRC][0-9]{2})[A-Z])");
+  const std::regex id(R"(^([LSRCW][0-9]{2})[A-Z])");
   std::smatch m;
   for (int i = 0; i < unit->total_test_suite_count(); ++i) {
     const auto* suite = unit->GetTestSuite(i);

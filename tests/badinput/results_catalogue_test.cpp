@@ -25,7 +25,9 @@ void expect_refused(const std::string& text, const std::string& message, std::ui
   ASSERT_FALSE(r.ok());
   EXPECT_NE(r.error->message.find(message), std::string::npos) << r.error->message;
   EXPECT_EQ(r.error->line, line) << r.error->message;
-  if (column) EXPECT_EQ(r.error->column, column) << r.error->message;
+  if (column) {
+    EXPECT_EQ(r.error->column, column) << r.error->message;
+  }
 }
 
 std::string replaced(std::string s, const std::string& from, const std::string& to) {

@@ -46,6 +46,11 @@ variant "analyze --json --units-csv (table printed)" "$cli" analyze "$work/lot.c
   --json "$work/r.json" --units-csv "$work/u.csv"
 variant "analyze --quiet --json --residuals" "$cli" analyze "$work/lot.csv" --quiet \
   --json "$work/residuals.json" --residuals
+variant "analyze --quiet --json --model power-law --temperature off" "$cli" analyze \
+  "$work/lot.csv" --quiet --json "$work/r.json" --model power-law --temperature off
 variant "analyze --quiet --json --threads 1" "$cli" analyze "$work/lot.csv" --quiet \
   --json "$work/r.json" --threads 1
+variant "analyze --quiet --model choose" "$cli" analyze "$work/lot.csv" --quiet --model choose
+variant "analyze --quiet --model choose --threads 1" "$cli" analyze "$work/lot.csv" --quiet \
+  --model choose --threads 1
 echo "results document: $(wc -c <"$work/r.json") bytes; with --residuals $(wc -c <"$work/residuals.json") bytes"

@@ -51,12 +51,13 @@ double peak_rss_mb() {
 }
 
 void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct,
-         int cap = photolot::PairOptions{}.candidate_cap_per_unit) {
+         int cap = photolot::PairOptions{}.candidate_cap_per_unit, bool spatial_order = true) {
   const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
   photolot::PairOptions o;
   o.mode = mode;
   o.tolerance_pct = tolerance_pct;
   o.candidate_cap_per_unit = cap;
+  o.spatial_order = spatial_order;
   photolot::Pairing p;
   for (auto _ : state) {
     p = photolot::pair_units(fit, o);
@@ -82,6 +83,11 @@ void BM_PairAbsolute3pct(benchmark::State& state) {
 void BM_PairTrimmable05pct(benchmark::State& state) {
   run(state, photolot::TrackingMode::trimmable, 0.5);
 }
+// The units in lot order instead of Z-order over the plane, for comparison in one run.
+void BM_PairAbsolute2pctLotOrder(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
+      false);
+}
 // The candidate cap's trade-off: a smaller first graph against more repair.
 void BM_PairAbsolute2pctCap(benchmark::State& state) {
   run(state, photolot::TrackingMode::absolute, 2.0, static_cast<int>(state.range(1)));
@@ -106,6 +112,13 @@ BENCHMARK(BM_PairAbsolute3pct)
 BENCHMARK(BM_PairTrimmable05pct)
     ->Arg(1000)
     ->Arg(10000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+
+BENCHMARK(BM_PairAbsolute2pctLotOrder)
+    ->Arg(10000)
+    ->Arg(100000)
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->MeasureProcessCPUTime();

@@ -254,8 +254,9 @@ TEST(CliModels, ChoosesTheDarkModelWhereAParallelConductanceBendsTheCurve) {
   EXPECT_GE(dark, 16u);
   // The default, the power law (the trade's convention), keeps the plain curve for every unit.
   ASSERT_EQ(run_cli({"analyze", "lot.csv", "--json", "pl.json", "--quiet"}, dir).code, 0);
-  for (const auto& u : Json::parse(slurp(dir / "pl.json")).at("units"))
-    EXPECT_EQ(u.at("model"), "power_law");
+  // The document is named: a range-for over a member of a temporary would read freed memory.
+  const Json plain = Json::parse(slurp(dir / "pl.json"));
+  for (const auto& u : plain.at("units")) EXPECT_EQ(u.at("model"), "power_law");
 }
 
 TEST(CliModels, FitsTheTemperatureCoefficientWhenTheReadingsSpreadEnough) {

@@ -3,6 +3,7 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <filesystem>
 #include <string>
 #include <utility>
 #include <vector>
@@ -10,6 +11,7 @@
 #include "photolot/import.h"
 #include "photolot/results.h"
 #include "photolot/spec.h"
+#include "photolot/workspace_doc.h"
 
 namespace photolot::fuzz {
 namespace {
@@ -96,7 +98,38 @@ void results_json(const std::uint8_t* data, std::size_t size) {
   (void)results::units_csv(r.doc.units);
 }
 
+void workspace_json(const std::uint8_t* data, std::size_t size) {
+  const std::string_view text(reinterpret_cast<const char*>(data), size);
+  // A folder that need not exist: parse() resolves paths without touching the disk.
+  const std::filesystem::path folder = "/fuzz/workspace";
+  const workspace::ParseResult r = workspace::parse(text, folder);
+  if (!r.ok()) {
+    PHOTOLOT_FUZZ_CHECK(!r.error->message.empty());
+    return;
+  }
+  // workspace_doc.h: every source path is resolved (absolute, lexically normal, within the
+  // system's limits) and marked outside exactly when it is not under the folder.
+  for (const auto& s : r.doc.sources) {
+    PHOTOLOT_FUZZ_CHECK(s.path.is_absolute());
+    PHOTOLOT_FUZZ_CHECK(s.path == s.path.lexically_normal());
+    PHOTOLOT_FUZZ_CHECK(s.path.native().size() <= workspace::kMaxPathBytes);
+    PHOTOLOT_FUZZ_CHECK(!s.path.filename().empty());
+    const auto rel = s.path.lexically_relative(folder);
+    PHOTOLOT_FUZZ_CHECK(s.outside_folder == (rel.empty() || *rel.begin() == ".."));
+  }
+  PHOTOLOT_FUZZ_CHECK(r.doc.sources.size() <= workspace::kMaxSources);
+  PHOTOLOT_FUZZ_CHECK(r.doc.import_options.validate().empty());
+  if (!r.doc.results.is_null()) PHOTOLOT_FUZZ_CHECK(results::from_json(r.doc.results).ok());
+  // Written and read again: a fixed point.
+  const std::string once = workspace::to_text(r.doc, folder);
+  const workspace::ParseResult again = workspace::parse(once, folder);
+  PHOTOLOT_FUZZ_CHECK(again.ok());
+  PHOTOLOT_FUZZ_CHECK(again.doc.sources.size() == r.doc.sources.size());
+  PHOTOLOT_FUZZ_CHECK(workspace::to_text(again.doc, folder) == once);
+}
+
 EntryPoint entry_point(std::string_view target) {
+  if (target == "workspace") return &workspace_json;
   if (target == "import") return &import_csv;
   if (target == "spec") return &spec_toml;
   if (target == "results") return &results_json;

@@ -20,7 +20,12 @@ void spec_toml(const std::uint8_t* data, std::size_t size);
 // and read again, and must give the same text.
 void results_json(const std::uint8_t* data, std::size_t size);
 
-// A fuzz target's name ("import", "spec", "results") to its entry point; nullptr if unknown.
+// The workspace reader (workspace::parse), as the workbench's loader calls it: a document it
+// accepts has resolved, bounded source paths and valid choices; written back and read again it
+// gives the same text.
+void workspace_json(const std::uint8_t* data, std::size_t size);
+
+// A fuzz target's name ("import", "spec", "results", "workspace") to its entry point; nullptr if unknown.
 using EntryPoint = void (*)(const std::uint8_t*, std::size_t);
 EntryPoint entry_point(std::string_view target);
 

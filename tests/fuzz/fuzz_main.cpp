@@ -1,5 +1,5 @@
 // libFuzzer's entry for one fuzz program; PHOTOLOT_FUZZ_TARGET names which entry point of
-// fuzz_entry.h it drives ("import", "spec", "results"). See scripts/fuzz.sh.
+// fuzz_entry.h it drives ("import", "spec", "results", "workspace"). See scripts/fuzz.sh.
 #include "fuzz_entry.h"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {

@@ -51,7 +51,7 @@ TEST_P(FuzzReplay, SurvivesEverySeedOfItsCorpus) {
   EXPECT_GT(replay(GetParam(), "corpus"), 0u);
 }
 
-INSTANTIATE_TEST_SUITE_P(Targets, FuzzReplay, ::testing::Values("import", "spec", "results"));
+INSTANTIATE_TEST_SUITE_P(Targets, FuzzReplay, ::testing::Values("import", "spec", "results", "workspace"));
 
 TEST(FuzzEntry, NamesOnlyTheKnownTargets) { EXPECT_EQ(entry_point("nonsense"), nullptr); }
 

@@ -7,6 +7,7 @@
 //     on mutated logs: every reading, count, layout and diagnostic must be the same.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <charconv>
 #include <cmath>
 #include <cstdint>
@@ -175,6 +176,99 @@ TEST(FastPath, ImportsMutatedLogsExactlyAsTheGeneralReader) {
           << text;
     }
   }
+}
+
+// The one-word (SWAR) mantissa read, where eight bytes past the number's start are readable:
+// every length from 1 to 24 characters, with and without a decimal mark and an exponent,
+// followed inside the readable buffer by bytes that must not be taken (digits, the other
+// decimal mark, bytes of 0xFA and above whose +6 carries out of the byte), and numbers that
+// end exactly at the buffer's end. Each against std::from_chars on the number's own text.
+TEST(FastPath, ReadsShortMantissasInOneWordExactlyAsFromChars) {
+  Lcg next{11};
+  const char followers[] = {'0', '7', '9', ',', '.', ';', '\n', ' ', 'e', '\xFA', '\xFF', '\x2F'};
+  for (int i = 0; i < 300000; ++i) {
+    const char decimal = next() % 2 ? '.' : ',';
+    std::string number;
+    const std::size_t int_digits = 1 + next() % 12;
+    for (std::size_t k = 0; k < int_digits; ++k) number += static_cast<char>('0' + next() % 10);
+    if (next() % 3 != 0) {
+      number += decimal;
+      const std::size_t frac = next() % 10;  // 0: "12." is not a plain number
+      for (std::size_t k = 0; k < frac; ++k) number += static_cast<char>('0' + next() % 10);
+    }
+    if (next() % 5 == 0) number += next() % 2 ? "e+06" : "E-3";
+    if (next() % 8 == 0) number.insert(number.begin(), '-');
+    // The buffer: the number, then 0 to 9 bytes that are readable but not part of it.
+    std::string buffer = number;
+    const std::size_t tail = next() % 10;
+    for (std::size_t k = 0; k < tail; ++k) buffer += followers[next() % sizeof followers];
+    const std::string_view text(buffer.data(), number.size());
+    std::string dotted = number;
+    for (char& c : dotted)
+      if (c == decimal) c = '.';
+    double want = 0;
+    const auto [end, ec] = std::from_chars(dotted.data(), dotted.data() + dotted.size(), want);
+    const bool whole = ec == std::errc() && end == dotted.data() + dotted.size();
+    detail::ScannedValue fast, bounded;
+    const bool fast_ok = detail::scan_plain(text, decimal, fast, buffer.data() + buffer.size());
+    const bool bounded_ok = detail::scan_plain(text, decimal, bounded);  // never past the text
+    ASSERT_EQ(fast_ok, bounded_ok) << number << " in " << buffer;
+    if (!fast_ok) {
+      // Only what the full scanner reads instead: no digit after the mark, or more digits
+      // than a double holds exactly (over 2^53 needs 16 or more).
+      const auto digits =
+          std::count_if(number.begin(), number.end(), [](char c) { return c >= '0' && c <= '9'; });
+      const std::size_t mark = number.find(decimal);
+      const bool empty_fraction =
+          mark != std::string::npos &&
+          (mark + 1 == number.size() || number[mark + 1] < '0' || number[mark + 1] > '9');
+      EXPECT_TRUE(!whole || empty_fraction || digits >= 16) << number;
+      continue;
+    }
+    ASSERT_TRUE(whole) << number;
+    EXPECT_TRUE(same_double(fast.value, want)) << number << " in " << buffer;
+    EXPECT_TRUE(same_double(fast.half_step, bounded.half_step)) << number;
+    const auto full = detail::scan_number(text, decimal, false);
+    ASSERT_TRUE(full.has_value()) << number;
+    EXPECT_TRUE(same_double(fast.half_step, full->half_step)) << number;
+    if (HasFailure()) break;
+  }
+}
+
+// Lines of more fields than the plain record holds, quotes after many fields, and units whose
+// readings come sorted, unsorted, repeated and interleaved with other units: the plain record
+// path, the regrouping and the sorted-sweep shortcut give what the general reader gives.
+TEST(FastPath, ImportsWideLinesAndInterleavedUnitsExactlyAsTheGeneralReader) {
+  std::string wide = "unit,lux,ohm";
+  for (int k = 0; k < 40; ++k) wide += ",x" + std::to_string(k);
+  wide += "\n";
+  for (int row = 0; row < 6; ++row) {
+    wide += "W1," + std::to_string(1 << row) + "," + std::to_string(10000 >> row);
+    for (int k = 0; k < 40; ++k) wide += row % 2 ? ",\"q\"" : ",1";
+    wide += "\n";
+  }
+  const std::string interleaved =
+      "unit,lux,ohm,temp\n"
+      "A,1,9000,25\nB,1,8000,25\nA,10,1000,25\nB,10,900,25\n"  // interleaved: regrouped
+      "C,1,5000,25\nC,10,700,25\nC,100,90,25\n"                // a sorted sweep
+      "D,100,90,25\nD,10,700,25\nD,1,5000,25\n"                // a falling sweep
+      "E,1,5000,25\nE,1,5000,25\nE,10,700,25\nE,10,710,25\n"   // duplicate, conflict
+      "F,1,5000,\nF,1,5000,25\nF,1,5001,26\n"                  // same lux, other keys
+      "A,100,120,25\n";                                        // A again, later
+  for (const std::string& text : {wide, interleaved}) {
+    const auto fast = import_buffers({{"bench-a.csv", text}});
+    EXPECT_EQ(describe(fast), describe(import_general(text)));
+    EXPECT_GT(fast.lot.counts.rows_used, 0u);
+  }
+  // Facts of the text itself (read off the rows above): unit A has its three readings in file
+  // order; E drops one repeated row and keeps both conflicting ones.
+  const auto r = import_buffers({{"bench-a.csv", interleaved}});
+  ASSERT_EQ(r.lot.units.size(), 6u);
+  ASSERT_EQ(r.lot.units[0].readings.size(), 3u);
+  EXPECT_EQ(r.lot.units[0].readings[2].ohm, 120.0);
+  EXPECT_EQ(r.lot.units[4].readings.size(), 3u);
+  EXPECT_EQ(r.lot.counts.duplicates_dropped, 1u);
+  EXPECT_EQ(r.lot.counts.conflicts, 1u);
 }
 
 }  // namespace

@@ -18,7 +18,6 @@
 
 namespace {
 
-using photolot::fitting::ExtendedFitOptions;
 using photolot::fitting::FitOptions;
 
 struct Data {
@@ -59,17 +58,12 @@ TEST(DarkConductanceFit, AgreesWithGslNonlinearLeastSquares) {
   sim.noise_pct = 0.5;
   const photolot::Unit unit = photolot::test::simulate_unit(sim, rng);
 
-  FitOptions options;
-  options.loss = photolot::fitting::Loss::none;
-  ExtendedFitOptions ext;
-  ext.model = photolot::fitting::ModelChoice::dark_conductance;
-  ext.temperature = photolot::fitting::TemperatureMode::off;
-  const photolot::UnitFit fit = photolot::fitting::fit_unit_extended(unit, options, ext);
+  const photolot::UnitFit fit = photolot::test::fit_dark_least_squares(unit);
   ASSERT_TRUE(fit.ok()) << fit.message;
   ASSERT_EQ(fit.curve.model, photolot::ModelKind::dark_conductance);
 
   Data d;
-  d.sd = std::log1p(options.meter_accuracy_pct / 100.0);
+  d.sd = std::log1p(FitOptions{}.meter_accuracy_pct / 100.0);
   for (const photolot::Reading& r : unit.readings) {
     d.x.push_back(std::log(r.lux / 10.0));
     d.y.push_back(std::log(r.ohm));

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "photolot/fitting/models.h"
 #include "photolot/lot.h"
 
 namespace photolot::test {
@@ -75,6 +76,18 @@ inline Unit simulate_unit(const UnitSim& s, Rng& rng, std::string id = "U1") {
     u.readings.push_back(d);
   }
   return u;
+}
+
+// The dark-conductance model alone by plain least squares (no robust loss, no temperature), with
+// every reading's sd ln(1 + meter_accuracy_pct / 100) at the default accuracy: the fit that the
+// outside references (GSL, ceres::Covariance) are compared with.
+inline UnitFit fit_dark_least_squares(const Unit& unit) {
+  fitting::FitOptions options;
+  options.loss = fitting::Loss::none;
+  fitting::ExtendedFitOptions ext;
+  ext.model = fitting::ModelChoice::dark_conductance;
+  ext.temperature = fitting::TemperatureMode::off;
+  return fitting::fit_unit_extended(unit, options, ext);
 }
 
 }  // namespace photolot::test

@@ -157,19 +157,4 @@ PdfInfo pdf_info(const std::filesystem::path& pdf) {
   return info;
 }
 
-std::string collapse_space(const std::string& text) {
-  std::string out;
-  bool space = false;
-  for (char ch : text) {
-    if (ch == ' ' || ch == '\n' || ch == '\t' || ch == '\f' || ch == '\r') {
-      space = true;
-      continue;
-    }
-    if (space && !out.empty()) out += ' ';
-    space = false;
-    out += ch;
-  }
-  return out;
-}
-
 }  // namespace photolot::test

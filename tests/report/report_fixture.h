@@ -52,7 +52,6 @@ struct PdfInfo {
 };
 PdfInfo pdf_info(const std::filesystem::path& pdf);
 
-// pdftotext joins or splits words at line ends; compare with runs of whitespace collapsed.
-std::string collapse_space(const std::string& text);
+// collapse_space (tests/support/test_support.h) evens out pdftotext's line breaks.
 
 }  // namespace photolot::test

@@ -6,6 +6,8 @@
 #include <gtest/gtest.h>
 #include <sys/resource.h>
 
+#include <algorithm>
+#include <cmath>
 #include <csignal>
 #include <cstdio>
 #include <filesystem>
@@ -246,4 +248,114 @@ TEST(LotSummaryPdf, LotWithNoFittedUnitStillPrintsAndSaysWhyEachWasNotFitted) {
   for (const auto& u : lot.fit.units) EXPECT_NE(flat.find(u.id), std::string::npos) << u.id;
   EXPECT_NE(flat.find("not fitted: 2 illuminance levels, 3 needed"), std::string::npos);
   EXPECT_NE(flat.find("0 of 8"), std::string::npos);  // units fitted
+}
+
+// ---- what the fit's models add (issue 6): curve model, temperature, bench profile ----
+
+TEST(LotSummaryPdf, CountsEachCurveModelAndNamesItBesideEachNonconformingUnit) {
+  // Give every nonconforming unit of the invented lot a dark-conductance curve (a 10 Mohm leak,
+  // 1e-7 S, in parallel with the same photoconductance), so the counts on the page must be the
+  // fixture's own tally.
+  auto lot = make_judged_lot(60, 17e3, 23e3);
+  ASSERT_GE(lot.nonconforming_ids.size(), 2u);
+  std::size_t dark = 0;
+  for (auto& u : lot.fit.units) {
+    const bool bad = std::find(lot.nonconforming_ids.begin(), lot.nonconforming_ids.end(), u.id) !=
+                     lot.nonconforming_ids.end();
+    if (!bad) continue;
+    u.curve.model = photolot::ModelKind::dark_conductance;
+    u.curve.params = {-std::log(u.r10_ohm), u.gamma, 1e-7};
+    u.curve.covariance.clear();
+    u.aicc_power_law = 10;
+    u.aicc_dark_conductance = 2;
+    ++dark;
+  }
+  const std::size_t power = lot.fit.units.size() - dark;
+  const std::string flat = summary_text(lot.input());
+  ASSERT_FALSE(flat.empty());
+  expect_all(flat, {"Curve model, temperature and meters",
+                    fmt::format("{} power law, {} dark conductance", power, dark),
+                    "chosen per unit by the lower AICc"});
+  for (const auto& id : lot.nonconforming_ids)
+    EXPECT_NE(flat.find(id + " dark conductance"), std::string::npos) << id;
+}
+
+TEST(LotSummaryPdf, SaysWhenTheTemperatureEffectWasNotIdentifiableAndWhatWasApplied) {
+  auto lot = make_judged_lot(30, 17e3, 23e3);
+  lot.fit.temperature.identifiable = false;
+  lot.fit.temperature.span_c = 0;
+  lot.fit.temperature.source = "none";
+  lot.fit.temperature.message =
+      "not identifiable: the readings span 0.00 degC, at least 5 needed; no coefficient applied";
+  const std::string flat = summary_text(lot.input());
+  ASSERT_FALSE(flat.empty());
+  expect_all(flat, {"Temperature effect not identifiable from these readings",
+                    "the readings span 0.00 \u00b0C", "Coefficient applied none",
+                    "R10 and gamma stated at the bench temperature (no correction)",
+                    "R10 and gamma are at the bench temperature"});
+  EXPECT_EQ(flat.find("stated at 25"), std::string::npos);
+}
+
+TEST(LotSummaryPdf, PrintsTheFittedCoefficientItsSlopeAndSpanAndThat25DegreesIsTheBasis) {
+  // The invented lot's readings are said to span 15 degC around 25 degC; the coefficient and
+  // its slope are stated values, printed to 3 decimals in %/degC.
+  auto lot = make_judged_lot(30, 17e3, 23e3);
+  for (std::size_t i = 0; i < lot.lot.units.size(); ++i)
+    for (auto& r : lot.lot.units[i].readings) r.temp_c = 17.5 + 15.0 * static_cast<double>(i % 2);
+  auto& t = lot.fit.temperature;
+  t.identifiable = true;
+  t.span_c = 15;
+  t.coefficient_pct_per_c = -0.41;
+  t.slope_pct_per_c_per_decade = 0.05;
+  t.source = "fitted";
+  const std::string flat = summary_text(lot.input());
+  ASSERT_FALSE(flat.empty());
+  expect_all(flat, {"Temperature effect identifiable", "17.5 to 32.5 \u00b0C, a span of 15.0",
+                    "Coefficient at 10 lx -0.410 %/\u00b0C", "+0.050 %/\u00b0C per decade",
+                    "Coefficient applied fitted", "R10 and gamma stated at 25 \u00b0C",
+                    "R10 and gamma are stated at 25 \u00b0C."});
+  // The spec's coefficient, applied where the readings did not identify one.
+  t = {};
+  t.source = "spec";
+  t.coefficient_pct_per_c = -0.3;
+  t.slope_pct_per_c_per_decade = 0;
+  const std::string spec_flat = summary_text(lot.input());
+  expect_all(spec_flat, {"Coefficient applied the spec's coefficient, -0.300 %/\u00b0C at 10 lx",
+                         "R10 and gamma stated at 25 \u00b0C"});
+}
+
+TEST(LotSummaryPdf, ListsTheBenchProfilesMeterAccuraciesOrSaysThereWasNone) {
+  auto lot = make_judged_lot(20, 17e3, 23e3);
+  EXPECT_NE(summary_text(lot.input()).find("Bench profile none"), std::string::npos);
+
+  // An invented bench: a 2 kohm range good to 0.5 % + 2 counts of 0.1 ohm, a 20 Mohm range to
+  // 0.8 % + 3 counts of 1 kohm, and a 3 % lux meter.
+  photolot::BenchProfile bench;
+  bench.ohm_ranges = {{20e6, 0.8, 3, 1e3}, {2e3, 0.5, 2, 0.1}};
+  bench.lux_pct = 3;
+  auto in = lot.input();
+  in.bench = &bench;
+  in.bench_profile_file = "profiles/bench-2.toml";
+  const std::string flat = summary_text(in);
+  expect_all(flat, {"Bench profile bench-2.toml",
+                    "range 2.00 k\u03a9: 0.5 % of reading + 2 digits of 100 m\u03a9",
+                    "range 20.0 M\u03a9: 0.8 % of reading + 3 digits of 1.00 k\u03a9",
+                    "Lux meter 3 % of reading"});
+
+  // A fit that says it used a profile the summary was not given must not print "none".
+  lot.fit.method += ", weights from the bench profile";
+  const std::string unknown = summary_text(lot.input());
+  EXPECT_EQ(unknown.find("Bench profile none"), std::string::npos);
+  EXPECT_NE(unknown.find("were not passed to this summary"), std::string::npos);
+}
+
+TEST(LotSummaryPdf, RefusesABenchProfileThatIsNotValid) {
+  const auto lot = make_judged_lot(5, 17e3, 23e3);
+  photolot::BenchProfile bench;
+  bench.lux_pct = -1;
+  auto in = lot.input();
+  in.bench = &bench;
+  const fs::path pdf = photolot::test::scratch_dir() / "summary.pdf";
+  EXPECT_NE(write_lot_summary_pdf(in, pdf.string()).find("bench profile"), std::string::npos);
+  EXPECT_FALSE(fs::exists(pdf));
 }

@@ -1,15 +1,10 @@
 #include "test_support.h"
 
 #include <gtest/gtest.h>
-
-#include <sys/wait.h>
-
-#include <cstdlib>
 #include <sys/wait.h>
 
 #include <cstdlib>
 #include <fstream>
-#include <iterator>
 #include <iterator>
 
 namespace photolot::test {
@@ -53,6 +48,21 @@ std::string slurp(const std::filesystem::path& path) {
   return {std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>()};
 }
 
+std::string collapse_space(const std::string& text) {
+  std::string out;
+  bool space = false;
+  for (char ch : text) {
+    if (ch == ' ' || ch == '\n' || ch == '\t' || ch == '\f' || ch == '\r') {
+      space = true;
+      continue;
+    }
+    if (space && !out.empty()) out += ' ';
+    space = false;
+    out += ch;
+  }
+  return out;
+}
+
 std::string shell_quote(const std::string& word) {
   std::string q = "'";
   for (char c : word) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
@@ -61,7 +71,8 @@ std::string shell_quote(const std::string& word) {
 
 CliRun run_program(const std::string& program, const std::vector<std::string>& args,
                    const std::filesystem::path& dir) {
-  std::string cmd = "cd " + shell_quote(dir.string()) + " && LC_ALL=C.UTF-8 " + shell_quote(program);
+  std::string cmd =
+      "cd " + shell_quote(dir.string()) + " && LC_ALL=C.UTF-8 " + shell_quote(program);
   for (const auto& a : args) cmd += " " + shell_quote(a);
   cmd += " >" + shell_quote((dir / "stdout.txt").string()) + " 2>" +
          shell_quote((dir / "stderr.txt").string());

@@ -33,6 +33,10 @@ struct CliRun {
 // The whole content of a file (empty when it cannot be read).
 std::string slurp(const std::filesystem::path& path);
 
+// Text with every run of blanks, tabs, line and page breaks made one space (none at either
+// end): pdftotext joins or splits words at line ends, so PDF text is compared this way.
+std::string collapse_space(const std::string& text);
+
 // Single-quotes a word for the POSIX shell.
 std::string shell_quote(const std::string& word);
 

@@ -175,6 +175,7 @@ TEST_F(MainWindowTest, SavedWorkspaceOpensToTheSameTableWithoutRefitting) {
     saved = table_text(*window.unitModel());
   }
   MainWindow again;
+  again.setSourceAnswerForTests(QDialog::Accepted);  // the list of files it reads
   ASSERT_TRUE(again.openWorkspace(path));
   ASSERT_TRUE(test::wait_idle(*again.session()));
   EXPECT_EQ(table_text(*again.unitModel()), saved);
@@ -196,6 +197,7 @@ TEST_F(MainWindowTest, AChangedLogIsReloadedWhenTheWorkspaceOpens) {
   bigger.units = 15;
   test::write_log(log_, bigger);
   MainWindow again;
+  again.setSourceAnswerForTests(QDialog::Accepted);
   again.setPromptAnswerForTests(QMessageBox::Ok);  // "Reload and refit"
   ASSERT_TRUE(again.openWorkspace(path));
   ASSERT_TRUE(test::wait_idle(*again.session()));

@@ -6,7 +6,10 @@
 #include <cctype>
 #include <cmath>
 #include <filesystem>
+#include <map>
 #include <set>
+
+#include "photolot/number_format.h"
 
 namespace photolot::report {
 namespace {
@@ -85,9 +88,11 @@ void add_spec(Content& c, const Spec& spec) {
                                                        num(spec.tolerance_coverage * 100),
                                                        num(spec.tolerance_confidence * 100))});
   if (std::isfinite(spec.temp_coeff_pct_per_c))
-    c.spec.push_back({"Temperature coefficient applied",
-                      fmt::format("{} %/\u00b0C at {} lx", num(spec.temp_coeff_pct_per_c),
-                                  num(spec.conditions.reference_lux))});
+    c.spec.push_back(
+        {"Temperature coefficient",
+         fmt::format("{} %/\u00b0C at {} lx, applied where the readings do not "
+                     "identify the lot's own",
+                     num(spec.temp_coeff_pct_per_c), num(spec.conditions.reference_lux))});
   if (!spec.source_file.empty()) c.spec.push_back({"Spec file", base_name(spec.source_file)});
 
   c.conditions.push_back(
@@ -101,18 +106,26 @@ void add_spec(Content& c, const Spec& spec) {
   c.reference_lux = spec.conditions.reference_lux;
 }
 
+// The lowest and highest bench temperature logged (NaN, NaN when none was).
+std::pair<double, double> temperature_range(const Lot& lot) {
+  double t_min = INFINITY, t_max = -INFINITY;
+  for (const Unit& u : lot.units)
+    for (const Reading& r : u.readings)
+      if (std::isfinite(r.temp_c)) {
+        t_min = std::min(t_min, r.temp_c);
+        t_max = std::max(t_max, r.temp_c);
+      }
+  if (!std::isfinite(t_min)) return {kNaN, kNaN};
+  return {t_min, t_max};
+}
+
 void add_measured_conditions(Content& c, const Lot& lot, const LotFit& fit) {
   std::set<double> levels;
-  double t_min = INFINITY, t_max = -INFINITY;
   std::size_t readings = 0;
   for (const Unit& u : lot.units) {
     for (const Reading& r : u.readings) {
       ++readings;
       if (r.kind != ReadingKind::dark && r.lux > 0) levels.insert(r.lux);
-      if (std::isfinite(r.temp_c)) {
-        t_min = std::min(t_min, r.temp_c);
-        t_max = std::max(t_max, r.temp_c);
-      }
     }
   }
   std::string text;
@@ -126,11 +139,6 @@ void add_measured_conditions(Content& c, const Lot& lot, const LotFit& fit) {
                        num(*levels.rbegin(), 4));
   }
   c.conditions.push_back({"Illuminance levels logged", text});
-  c.conditions.push_back({"Temperature logged",
-                          !std::isfinite(t_min) ? std::string("not logged")
-                          : fixed(t_min, 1) == fixed(t_max, 1)
-                              ? fmt::format("{} \u00b0C throughout", fixed(t_min, 1))
-                              : fmt::format("{} to {} \u00b0C", fixed(t_min, 1), fixed(t_max, 1))});
   c.conditions.push_back(
       {"Readings", fmt::format("{} in {} units ({} dark, {} over range)", readings,
                                lot.units.size(), lot.counts.dark, lot.counts.censored)});
@@ -159,24 +167,151 @@ void add_measured_conditions(Content& c, const Lot& lot, const LotFit& fit) {
     censored_points += static_cast<std::size_t>(std::max(u.censored_points, 0));
     if (!u.ok()) ++not_fitted;
   }
+  bool any_dark = false;
+  for (const UnitFit& u : fit.units)
+    any_dark |= u.ok() && u.curve.model == ModelKind::dark_conductance;
   c.method.push_back(
-      {"Curve", "R(E) = R10 \u00b7 (E / 10 lx)^(\u2212gamma), fitted to ln R of each unit"});
+      {"Curve", any_dark
+                    ? "power law R(E) = R10 \u00b7 (E / 10 lx)^(\u2212gamma), or with a dark "
+                      "conductance in parallel, 1/R = G_dark + G10 \u00b7 (E / 10 lx)^gamma; "
+                      "R10 and gamma are read from each unit's own curve"
+                    : "R(E) = R10 \u00b7 (E / 10 lx)^(\u2212gamma), fitted to ln R of each unit"});
   c.method.push_back({"Fit", fit.method.empty() ? "not stated" : fit.method});
   c.method.push_back({"Units fitted", fmt::format("{} of {} ({} not fitted)", fit.fitted_count(),
                                                   fit.units.size(), not_fitted)});
   c.method.push_back({"Points set aside", fmt::format("{} outlier points, {} over-range points "
                                                       "kept as bounds",
                                                       outlier_points, censored_points)});
+}
+
+// The curve model as the page names it.
+std::string_view model_words(ModelKind kind) {
+  return kind == ModelKind::dark_conductance ? "dark conductance" : "power law";
+}
+
+// A temperature coefficient in percent per degree C, signed.
+std::string pct_per_c(double v) {
+  return std::isfinite(v) ? fmt::format("{:.3f} %/\u00b0C", v) : std::string(kDash);
+}
+
+// The fitting step's message with its ASCII degree unit written as a degree sign.
+std::string degrees_in(std::string text) {
+  for (std::size_t at = 0; (at = text.find("degC", at)) != std::string::npos;)
+    text.replace(at, 4, "\u00b0C");
+  return text;
+}
+
+void add_model_choice(Content& c, const LotFit& fit) {
+  std::size_t power = 0, dark = 0, not_fitted = 0, both = 0;
+  for (const UnitFit& u : fit.units) {
+    if (!u.ok()) {
+      ++not_fitted;
+      continue;
+    }
+    ++(u.curve.model == ModelKind::dark_conductance ? dark : power);
+    both += std::isfinite(u.aicc_power_law) && std::isfinite(u.aicc_dark_conductance);
+  }
+  std::string text = fmt::format("{} power law, {} dark conductance", power, dark);
+  if (not_fitted) text += fmt::format(", {} not fitted", not_fitted);
+  text += both
+              ? fmt::format("; chosen per unit by the lower AICc ({} units fitted both ways)", both)
+              : std::string("; one model was fitted, as set for the run");
+  c.models.push_back({"Curve model per unit", text});
+}
+
+void add_temperature(Content& c, const Lot& lot, const LotFit& fit) {
   const LotTemperature& t = fit.temperature;
-  std::string temp = t.source == "fitted"
-                         ? "corrected to 25 \u00b0C, coefficient fitted from the logs"
-                     : t.source == "spec" ? "corrected to 25 \u00b0C, coefficient from the spec"
-                                          : "not corrected (results at the bench temperature)";
-  if (std::isfinite(t.coefficient_pct_per_c))
-    temp += fmt::format(", {} %/\u00b0C at 10 lx", num(t.coefficient_pct_per_c));
-  if (t.span_c > 0) temp += fmt::format(", readings span {} \u00b0C", fixed(t.span_c, 1));
-  if (!t.message.empty()) temp += "; " + t.message;
-  c.method.push_back({"Temperature", temp});
+  const bool off = t.message.rfind("temperature handling off", 0) == 0;
+  std::string effect;
+  if (t.source.empty()) {
+    effect = "not stated by the fit";
+  } else if (t.identifiable) {
+    effect = "identifiable: fitted jointly over the lot's readings";
+  } else if (off) {
+    effect = "not sought: temperature handling was off for this run";
+  } else {
+    effect = "not identifiable from these readings";
+    // The fit's reason, between "not identifiable: " and what it then applied.
+    const std::string_view lead = "not identifiable: ";
+    if (t.message.rfind(lead, 0) == 0) {
+      const std::string why = t.message.substr(lead.size(), t.message.find(';') - lead.size());
+      if (!why.empty()) effect += " (" + degrees_in(why) + ")";
+    }
+  }
+  c.models.push_back({"Temperature effect", effect});
+
+  const auto [t_min, t_max] = temperature_range(lot);
+  const double span = t.source.empty() && std::isfinite(t_min) ? t_max - t_min : t.span_c;
+  std::string range = "not logged";
+  if (std::isfinite(t_min))
+    range = fixed(t_min, 1) == fixed(t_max, 1)
+                ? fmt::format("{} \u00b0C throughout", fixed(t_min, 1))
+                : fmt::format("{} to {} \u00b0C", fixed(t_min, 1), fixed(t_max, 1));
+  c.models.push_back(
+      {"Bench temperatures", fmt::format("{}, a span of {} \u00b0C", range, fixed(span, 1))});
+  c.models.push_back({"Coefficient at 10 lx", pct_per_c(t.coefficient_pct_per_c)});
+  c.models.push_back(
+      {"Change per decade of lux", std::isfinite(t.slope_pct_per_c_per_decade)
+                                       ? fmt::format("{:+.3f} %/\u00b0C per decade of illuminance",
+                                                     t.slope_pct_per_c_per_decade)
+                                       : std::string(kDash)});
+  std::string applied;
+  if (t.source == "fitted")
+    applied = fmt::format("fitted: the lot's own coefficient, {} at 10 lx",
+                          pct_per_c(t.coefficient_pct_per_c));
+  else if (t.source == "spec")
+    applied =
+        fmt::format("the spec's coefficient, {} at 10 lx", pct_per_c(t.coefficient_pct_per_c));
+  else if (t.source == "none")
+    applied = "none";
+  else
+    applied = "not stated";
+  c.models.push_back({"Coefficient applied", applied});
+  const bool corrected = t.source == "fitted" || t.source == "spec";
+  c.models.push_back({"R10 and gamma stated at",
+                      corrected ? "25 \u00b0C (each reading corrected by the coefficient applied)"
+                                : "the bench temperature (no correction)"});
+
+  double own_min = INFINITY, own_max = -INFINITY;
+  std::size_t own = 0;
+  for (const UnitFit& u : fit.units)
+    if (u.ok() && std::isfinite(u.temp_coeff_pct_per_c)) {
+      ++own;
+      own_min = std::min(own_min, u.temp_coeff_pct_per_c);
+      own_max = std::max(own_max, u.temp_coeff_pct_per_c);
+    }
+  if (own)
+    c.models.push_back(
+        {"Units' own coefficients",
+         fmt::format("{} units, from {} to {}", own, pct_per_c(own_min), pct_per_c(own_max))});
+}
+
+void add_bench(Content& c, const SummaryInput& in) {
+  if (!in.bench) {
+    // The fit's method line names the profile when one weighted the readings.
+    const bool used = in.fit->method.find("bench profile") != std::string::npos;
+    c.models.push_back(
+        {"Bench profile",
+         used ? "used by the fit; its meter accuracies were not passed to this summary"
+              : "none: every reading weighted alike (see Fitting method)"});
+    return;
+  }
+  const BenchProfile& b = *in.bench;
+  c.models.push_back(
+      {"Bench profile",
+       fmt::format("{}: each reading weighted by the meters' stated accuracy",
+                   in.bench_profile_file.empty() ? std::string("given")
+                                                 : base_name(in.bench_profile_file))});
+  std::vector<MeterRange> ranges = b.ohm_ranges;
+  std::sort(ranges.begin(), ranges.end(),
+            [](const MeterRange& x, const MeterRange& y) { return x.max_ohm < y.max_ohm; });
+  std::string ohm;
+  for (const MeterRange& r : ranges)
+    ohm += fmt::format("{}range {}: {} % of reading + {} digits of {}", ohm.empty() ? "" : "; ",
+                       format_ohm(r.max_ohm), num(r.pct, 4), num(r.digits, 4),
+                       format_ohm(r.resolution_ohm));
+  c.models.push_back({"Resistance meter", ohm.empty() ? std::string("no ranges given") : ohm});
+  c.models.push_back({"Lux meter", fmt::format("{} % of reading", num(b.lux_pct, 4))});
 }
 
 void add_statistics(Content& c, const LotStatistics& s) {
@@ -248,9 +383,16 @@ void add_statistics(Content& c, const LotStatistics& s) {
 }
 
 void add_nonconforming(Content& c, const SummaryInput& in) {
-  c.nonconforming.headers = {"No.", "Unit", "Reasons"};
-  c.nonconforming.widths = {0.5, 1.2, 6.0};
-  c.nonconforming.right_aligned = {true, false, false};
+  c.nonconforming.headers = {"No.", "Unit", "Curve model", "Reasons"};
+  c.nonconforming.widths = {0.5, 1.2, 1.5, 5.0};
+  c.nonconforming.right_aligned = {true, false, false, false};
+  std::map<std::string_view, const UnitFit*> fits;
+  for (const UnitFit& u : in.fit->units) fits.emplace(u.id, &u);
+  const auto model_of = [&](const std::string& id) {
+    const auto it = fits.find(id);
+    return it != fits.end() && it->second->ok() ? std::string(model_words(it->second->curve.model))
+                                                : std::string("not fitted");
+  };
   int no = 0;
   if (in.verdicts) {
     for (const UnitVerdict& v : *in.verdicts) {
@@ -259,7 +401,7 @@ void add_nonconforming(Content& c, const SummaryInput& in) {
       for (const Reason& r : v.reasons) reasons += (reasons.empty() ? "" : "; ") + reason_text(r);
       for (const std::string& n : v.notes)
         reasons += (reasons.empty() ? "" : "; ") + ("note: " + n);
-      c.nonconforming.rows.push_back({fmt::format("{}", ++no), v.id, reasons});
+      c.nonconforming.rows.push_back({fmt::format("{}", ++no), v.id, model_of(v.id), reasons});
     }
     c.nonconforming_note = no == 0 ? "No unit broke a limit of the spec."
                                    : fmt::format("{} of {} units judged broke at least one limit.",
@@ -268,7 +410,7 @@ void add_nonconforming(Content& c, const SummaryInput& in) {
     for (const UnitFit& u : in.fit->units) {
       if (u.ok()) continue;
       c.nonconforming.rows.push_back(
-          {fmt::format("{}", ++no), u.id,
+          {fmt::format("{}", ++no), u.id, "not fitted",
            fmt::format("not fitted: {}", u.message.empty() ? "no reason given" : u.message)});
     }
     c.nonconforming_note =
@@ -308,20 +450,6 @@ void add_pairs(Content& c, const PairsSection& p) {
 }
 
 }  // namespace
-
-std::string format_ohm(double ohm) {
-  if (!std::isfinite(ohm)) return kDash;
-  // Three significant figures, trailing zeros kept so a column reads evenly (25.0 kΩ, not 25 kΩ).
-  const auto three = [](double v) {
-    const double a = std::abs(v);
-    const int decimals = a >= 99.95 ? 0 : a >= 9.995 ? 1 : 2;
-    return fmt::format("{:.{}f}", v, decimals);
-  };
-  const double a = std::abs(ohm);
-  if (a >= 999.5e3) return three(ohm / 1e6) + " M\u03a9";
-  if (a >= 999.5) return three(ohm / 1e3) + " k\u03a9";
-  return three(ohm) + " \u03a9";
-}
 
 Content build_content(const SummaryInput& in) {
   Content c;
@@ -363,11 +491,19 @@ Content build_content(const SummaryInput& in) {
 
   if (in.spec) add_spec(c, *in.spec);
   add_measured_conditions(c, *in.lot, *in.fit);
+  add_model_choice(c, *in.fit);
+  add_temperature(c, *in.lot, *in.fit);
+  add_bench(c, in);
   if (in.stats) {
     add_statistics(c, *in.stats);
   } else {
     c.statistics_note = "Lot statistics were not computed for this summary.";
   }
+  const std::string& source = in.fit->temperature.source;
+  c.statistics_note.insert(0, source == "fitted" || source == "spec"
+                                  ? "R10 and gamma are stated at 25 \u00b0C. "
+                                  : "R10 and gamma are at the bench temperature (no temperature "
+                                    "correction). ");
   add_nonconforming(c, in);
 
   std::set<std::string> bad;

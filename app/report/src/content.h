@@ -8,6 +8,7 @@
 
 #include "geometry.h"
 #include "photolot/curve.h"
+#include "photolot/number_format.h"
 #include "photolot/report/summary.h"
 #include "photolot/spec.h"
 
@@ -49,6 +50,8 @@ struct Content {
 
   std::vector<KeyValue> spec;        // the purchase spec
   std::vector<KeyValue> conditions;  // test conditions and what the logs show
+  // How the curves were read: the model per unit, the temperature handling, the bench profile.
+  std::vector<KeyValue> models;
   Table statistics;
   std::string statistics_note;
   Table nonconforming;
@@ -72,7 +75,7 @@ struct Content {
 
 Content build_content(const SummaryInput& input);
 
-// Number formatting shared by the tables and the plots' labels (fmt; never the C locale).
-std::string format_ohm(double ohm);  // "20.1 kΩ", "4.70 MΩ", "—" for NaN
+// Resistances in the tables and the plots' labels: photolot::format_ohm (number_format.h),
+// "20.1 kΩ", "4.70 MΩ", "—" for NaN.
 
 }  // namespace photolot::report

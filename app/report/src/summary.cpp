@@ -26,6 +26,9 @@ std::string SummaryInput::validate() const {
   if (fit->units.size() != lot->units.size())
     return fmt::format("the fit has {} units but the lot has {}: they must be the same lot",
                        fit->units.size(), lot->units.size());
+  if (bench != nullptr)
+    if (std::string why = bench->validate(); !why.empty())
+      return "the bench profile is not valid: " + why;
   return {};
 }
 
@@ -387,6 +390,8 @@ int lay_out(QPdfWriter& writer, QPainter* painter, const Content& c, int total_p
     f.key_values(c.spec);
   f.heading("Test conditions and measurement");
   f.key_values(c.conditions);
+  f.heading("Curve model, temperature and meters");
+  f.key_values(c.models);
   if (c.statistics.rows.empty())
     f.heading("Lot statistics");
   else

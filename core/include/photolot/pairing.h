@@ -41,6 +41,9 @@ struct PairOptions {
   int candidate_cap_per_unit = 16;
   int grid_points_per_decade = 40;  // for curves other than the power law
   int max_repair_rounds = 25;       // solve-check rounds before giving up on the proof
+  // The matching sees the units in Z-order over the plane (for memory locality) rather than
+  // in lot order; the result is exact either way.
+  bool spatial_order = true;
 
   // Empty when valid; otherwise names the field, its value and the rule.
   std::string validate() const;

@@ -7,6 +7,7 @@
 #include <cmath>
 
 #include "photolot/acceptance.h"
+#include "photolot/number_format.h"
 
 namespace photolot {
 
@@ -22,16 +23,9 @@ std::string_view to_string(Verdict verdict) {
 
 namespace {
 
-// "24.1 kΩ": three significant digits with an SI prefix.
-std::string format_ohm(double ohm) {
-  if (!std::isfinite(ohm)) return "? \u03a9";
-  static constexpr std::pair<double, const char*> kPrefixes[] = {
-      {1e9, "G"}, {1e6, "M"}, {1e3, "k"}, {1, ""}, {1e-3, "m"}};
-  for (const auto& [scale, prefix] : kPrefixes) {
-    const double m = ohm / scale;
-    if (std::abs(m) >= 0.9995 || scale == 1e-3) return fmt::format("{:.3g} {}\u03a9", m, prefix);
-  }
-  return fmt::format("{:.3g} \u03a9", ohm);
+// "24.1 kΩ", "23 kΩ": three significant figures with an SI prefix, trailing zeros dropped.
+std::string ohm_text(double ohm) {
+  return photolot::format_ohm(ohm, {.keep_trailing_zeros = false, .missing = "? \u03a9"});
 }
 
 double excess_pct(double measured, double limit) {
@@ -40,7 +34,7 @@ double excess_pct(double measured, double limit) {
 
 void check_window(UnitVerdict& v, Characteristic c, const std::string& label, double measured,
                   const Limits& limits, bool ohm) {
-  auto show = [&](double x) { return ohm ? format_ohm(x) : fmt::format("{:.3g}", x); };
+  auto show = [&](double x) { return ohm ? ohm_text(x) : fmt::format("{:.3g}", x); };
   auto add = [&](std::string_view side, double limit, std::string_view word) {
     Reason r;
     r.characteristic = c;
@@ -62,8 +56,8 @@ void check_window(UnitVerdict& v, Characteristic c, const std::string& label, do
 void check_dark(UnitVerdict& v, const UnitFit& unit, double limit_ohm) {
   const std::size_t n = unit.dark_ohm.size();
   if (n == 0) {
-    v.notes.push_back(fmt::format("no dark reading: not judged on the dark limit (min {})",
-                                  format_ohm(limit_ohm)));
+    v.notes.push_back(
+        fmt::format("no dark reading: not judged on the dark limit (min {})", ohm_text(limit_ohm)));
     return;
   }
   // The worst (lowest) plain reading decides; a censored reading is a lower bound and proves
@@ -90,18 +84,18 @@ void check_dark(UnitVerdict& v, const UnitFit& unit, double limit_ohm) {
     r.measured = lowest;
     r.limit_value = limit_ohm;
     r.excess_pct = excess_pct(lowest, limit_ohm);
-    r.text = fmt::format("dark resistance {} below min {} by {:.2g} %", format_ohm(lowest),
-                         format_ohm(limit_ohm), r.excess_pct);
+    r.text = fmt::format("dark resistance {} below min {} by {:.2g} %", ohm_text(lowest),
+                         ohm_text(limit_ohm), r.excess_pct);
     v.reasons.push_back(std::move(r));
   } else if (inconclusive && !std::isfinite(lowest)) {
     v.notes.push_back(
         std::isfinite(inconclusive_bound)
             ? fmt::format("dark reading over the meter's range (above {}) cannot show the min {}: "
                           "not judged on the dark limit",
-                          format_ohm(inconclusive_bound), format_ohm(limit_ohm))
+                          ohm_text(inconclusive_bound), ohm_text(limit_ohm))
             : fmt::format("dark reading over the meter's range with no bound: not judged on the "
                           "dark limit (min {})",
-                          format_ohm(limit_ohm)));
+                          ohm_text(limit_ohm)));
   }
 }
 

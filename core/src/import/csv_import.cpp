@@ -44,8 +44,9 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
+#include <limits>
 #include <numeric>
-#include <unordered_map>
+#include <string_view>
 
 #include "../units/value_scan.h"
 #include "columns.h"
@@ -382,6 +383,48 @@ struct FileTally {
   std::size_t censored_unknown_bound = 0;
 };
 
+// A data row in the two shapes the reader gives it: the general reader's fields, or the
+// offsets of a plain record (one quote-free line). Both give the same texts and places.
+struct FieldRow {
+  const std::vector<Field>& fields;
+  std::uint32_t record_line;
+  bool record_ascii;
+  std::size_t size() const { return fields.size(); }
+  std::uint32_t line() const { return record_line; }
+  bool ascii() const { return record_ascii; }
+  std::string_view text(std::size_t i, std::string& scratch) const {
+    return detail::field_text(fields[i], scratch);
+  }
+  const Field& field(std::size_t i) const { return fields[i]; }
+  // How far past field i's text bytes may be read (null: not past it): a field with doubled
+  // quotes is unquoted into scratch, outside the text.
+  const char* readable_end(std::size_t i, const char* text_end) const {
+    return fields[i].has_escapes ? nullptr : text_end;
+  }
+  // 1-based column of field i; on one line of ASCII a column is a byte offset.
+  std::uint32_t column(std::size_t i) const {
+    const Field& f = fields[i];
+    return record_ascii ? static_cast<std::uint32_t>(f.start - f.line_start) + 1
+                        : detail::column_of(f.line_start, f.start);
+  }
+};
+
+struct PlainRow {
+  const detail::PlainRecord& record;
+  std::size_t size() const { return record.count; }
+  std::uint32_t line() const { return record.line; }
+  bool ascii() const { return record.ascii; }
+  std::string_view text(std::size_t i, std::string& /*scratch*/) const {
+    return detail::trim(record.raw(i));
+  }
+  Field field(std::size_t i) const { return record.field(i); }
+  const char* readable_end(std::size_t /*i*/, const char* text_end) const { return text_end; }
+  std::uint32_t column(std::size_t i) const {
+    return record.ascii ? record.cut[i] + 1
+                        : detail::column_of(record.line_start, record.line_start + record.cut[i]);
+  }
+};
+
 class Builder {
  public:
   explicit Builder(const ImportOptions& options) : options_(options) {}
@@ -448,18 +491,45 @@ class Builder {
     diag_file_.push_back(file);
   }
 
+  // The unit of a row: usually the previous row's (checked inline), else looked up or added.
   std::uint32_t unit_index(std::string_view id) {
-    if (have_last_ && id == last_id_) return last_index_;
-    last_id_.assign(id);
-    auto it = ids_.find(last_id_);
-    std::uint32_t index;
-    if (it == ids_.end()) {
-      index = static_cast<std::uint32_t>(lot_.units.size());
-      lot_.units.push_back(Unit{std::string(id), {}});
-      ids_.emplace(last_id_, index);
-    } else {
-      index = it->second;
+    if (have_last_ && id.size() == last_id_.size() &&
+        std::memcmp(id.data(), last_id_.data(), id.size()) == 0)
+      return last_index_;
+    return find_or_add_unit(id);
+  }
+
+  [[gnu::noinline]] std::uint32_t find_or_add_unit(std::string_view id) {
+    const std::uint64_t hash = std::hash<std::string_view>{}(id);
+    const std::uint64_t tag = hash >> 32 << 32;
+    if (id_slots_.empty()) id_slots_.assign(1024, 0);
+    std::size_t mask = id_slots_.size() - 1;
+    std::size_t i = hash & mask;
+    for (; id_slots_[i] != 0; i = (i + 1) & mask) {
+      const std::uint64_t slot = id_slots_[i];
+      const std::uint32_t index = static_cast<std::uint32_t>(slot) - 1;
+      if ((slot & ~std::uint64_t{0xFFFFFFFF}) == tag && lot_.units[index].id == id)
+        return remember(id, index);
     }
+    const std::uint32_t index = static_cast<std::uint32_t>(lot_.units.size());
+    lot_.units.push_back(Unit{std::string(id), {}});
+    unit_rows_.push_back(0);
+    unit_hashes_.push_back(hash);
+    id_slots_[i] = tag | (index + 1);
+    if (2 * lot_.units.size() > id_slots_.size()) {  // keep the table at most half full
+      id_slots_.assign(2 * id_slots_.size(), 0);
+      mask = id_slots_.size() - 1;
+      for (std::uint32_t u = 0; u < unit_hashes_.size(); ++u) {
+        std::size_t k = unit_hashes_[u] & mask;
+        while (id_slots_[k] != 0) k = (k + 1) & mask;
+        id_slots_[k] = (unit_hashes_[u] >> 32 << 32) | (u + 1);
+      }
+    }
+    return remember(id, index);
+  }
+
+  std::uint32_t remember(std::string_view id, std::uint32_t index) {
+    last_id_.assign(id);
     last_index_ = index;
     have_last_ = true;
     return index;
@@ -486,11 +556,14 @@ class Builder {
       pending_.reserve(pending_.size() + lines + 1);
     }
     std::vector<Field> fields;
+    detail::PlainRecord plain;
     std::string scratch_id, scratch;
     std::size_t row_errors = 0, suppressed = 0;
     bool repeated_header_noted = false;
     std::uint32_t last_line = p.data_line;
     ImportCounts& counts = lot_.counts;
+    // Numbers may be read a word at a time up to the end of the text, past their field.
+    const char* const text_end = text.data() + text.size();
 
     auto reject = [&](const Field* at, std::uint32_t line, std::uint32_t column,
                       std::string message) {
@@ -505,44 +578,38 @@ class Builder {
       }
       note(file_index, line, column, Severity::error, std::move(message));
     };
+    auto reject_at = [&](const auto& row, std::size_t i, std::string message) {
+      const Field f = row.field(i);
+      reject(&f, 0, 0, std::move(message));
+    };
 
-    for (;;) {
-      const auto status = reader.next(fields);
-      if (status == CsvReader::Status::end) break;
-      const std::uint32_t line = reader.record_line();
+    // One data row, from either reader (the rows below).
+    auto process = [&](const auto& row) {
+      const std::uint32_t line = row.line();
       last_line = line;
-      if (status == CsvReader::Status::unterminated_quote) {
-        ++counts.rows_read;
-        ++p.layout.data_rows;
-        reject(&fields.back(), 0, 0,
-               "quote opened here is never closed; the row is skipped and reading resumes on "
-               "the next line");
-        continue;
-      }
-      if (fields.size() < needed) {
+      if (row.size() < needed) {
         // A repeated header among too-short rows is still a header.
         ++counts.rows_read;
         ++p.layout.data_rows;
-        const Field& last = fields.back();
+        const Field last = row.field(row.size() - 1);
         const std::uint32_t column =
             detail::column_of(last.line_start, last.start + last.raw.size()) +
             (last.quoted ? 2 : 0);
-        reject(nullptr, last.line, column,
-               fmt::format("too few fields: {} of the {} needed for the {} column", fields.size(),
-                           needed,
-                           fields.size() <= p.ohm   ? "resistance"
-                           : fields.size() <= p.lux ? "illuminance"
-                                                    : "unit id"));
-        continue;
+        reject(
+            nullptr, last.line, column,
+            fmt::format("too few fields: {} of the {} needed for the {} column", row.size(), needed,
+                        row.size() <= p.ohm   ? "resistance"
+                        : row.size() <= p.lux ? "illuminance"
+                                              : "unit id"));
+        return;
       }
-      const Field& lux_field = fields[p.lux];
-      const std::string_view lux_text = detail::field_text(lux_field, scratch);
+      const std::string_view lux_text = row.text(p.lux, scratch);
       if (!p.lux_header.empty() && iequals(lux_text, p.lux_header)) {
         if (!repeated_header_noted)
           note(file_index, line, 0, Severity::note,
                "the header repeats here (logs joined end to end?); skipped");
         repeated_header_noted = true;
-        continue;
+        return;
       }
       ++counts.rows_read;
       ++p.layout.data_rows;
@@ -550,14 +617,14 @@ class Builder {
       // Unit id.
       std::string_view id;
       if (p.id != kNone) {
-        id = detail::field_text(fields[p.id], scratch_id);
+        id = row.text(p.id, scratch_id);
         if (id.empty()) {
-          reject(&fields[p.id], 0, 0, "missing unit id");
-          continue;
+          reject_at(row, p.id, "missing unit id");
+          return;
         }
-        if (!reader.record_ascii() && detail::invalid_utf8_at(id) != std::string_view::npos) {
-          reject(&fields[p.id], 0, 0, "unit id is not UTF-8 text");
-          continue;
+        if (!row.ascii() && detail::invalid_utf8_at(id) != std::string_view::npos) {
+          reject_at(row, p.id, "unit id is not UTF-8 text");
+          return;
         }
       } else {
         id = default_id;
@@ -565,45 +632,43 @@ class Builder {
 
       // Illuminance.
       if (lux_text.empty()) {
-        reject(&lux_field, 0, 0, "missing illuminance");
-        continue;
+        reject_at(row, p.lux, "missing illuminance");
+        return;
       }
       std::optional<detail::ScannedValue> lux_value;
-      if (detail::ScannedValue plain; detail::scan_plain(lux_text, decimal, plain))
-        lux_value = plain;
+      if (detail::ScannedValue plain_value;
+          detail::scan_plain(lux_text, decimal, plain_value, row.readable_end(p.lux, text_end)))
+        lux_value = plain_value;
       else
         lux_value = detail::scan_quantity(lux_text, decimal, Quantity::illuminance);
       if (!lux_value) {
-        reject(&lux_field, 0, 0,
-               detail::is_non_finite_word(lux_text)
-                   ? fmt::format("illuminance '{}' is not a finite number", lux_text)
-                   : fmt::format("illuminance '{}' is not a number", lux_text));
-        continue;
+        reject_at(row, p.lux,
+                  detail::is_non_finite_word(lux_text)
+                      ? fmt::format("illuminance '{}' is not a finite number", lux_text)
+                      : fmt::format("illuminance '{}' is not a number", lux_text));
+        return;
       }
       const double lux = lux_value->self_scaled ? lux_value->value
                                                 : lux_value->value * lux_col.scale + lux_col.offset;
       if (!std::isfinite(lux)) {
-        reject(&lux_field, 0, 0, fmt::format("illuminance '{}' is not a finite number", lux_text));
-        continue;
+        reject_at(row, p.lux, fmt::format("illuminance '{}' is not a finite number", lux_text));
+        return;
       }
       if (lux < 0) {
-        reject(&lux_field, 0, 0, fmt::format("illuminance '{}' is negative", lux_text));
-        continue;
+        reject_at(row, p.lux, fmt::format("illuminance '{}' is negative", lux_text));
+        return;
       }
 
       // Resistance, or an over-range marker.
-      const Field& ohm_field = fields[p.ohm];
-      const std::string_view ohm_text = detail::field_text(ohm_field, scratch);
+      const std::string_view ohm_text = row.text(p.ohm, scratch);
       Reading r;
       r.lux = lux;
       r.source = SourceRef{file_index, line};
       ReadingExtra extra;
-      extra.column = reader.record_ascii()  // one line of ASCII: a column is a byte offset
-                         ? static_cast<std::uint32_t>(ohm_field.start - ohm_field.line_start) + 1
-                         : detail::column_of(ohm_field.line_start, ohm_field.start);
+      extra.column = row.column(p.ohm);
       if (ohm_text.empty()) {
-        reject(&ohm_field, 0, 0, "missing resistance");
-        continue;
+        reject_at(row, p.ohm, "missing resistance");
+        return;
       }
       const char lead = ohm_text[0];
       const bool digit_lead = (lead >= '0' && lead <= '9') || lead == '.';
@@ -614,9 +679,10 @@ class Builder {
         const double bound_ohm =
             bound ? (bound->self_scaled ? bound->value : bound->value * ohm_col.scale) : kNaN;
         if (!bound || !(bound_ohm > 0) || !std::isfinite(bound_ohm)) {
-          reject(&ohm_field, 0, 0,
-                 fmt::format("over-range bound '{}' is not a resistance above zero", bound_text));
-          continue;
+          reject_at(
+              row, p.ohm,
+              fmt::format("over-range bound '{}' is not a resistance above zero", bound_text));
+          return;
         }
         r.ohm = bound_ohm;
         extra.over_range = true;
@@ -624,44 +690,45 @@ class Builder {
         r.ohm = options_.overload_ohm;
         extra.over_range = true;
       } else if (!digit_lead && (lead == '<' || ohm_text.starts_with("\xE2\x89\xA4" /* ≤ */))) {
-        reject(&ohm_field, 0, 0,
-               fmt::format("resistance '{}' is below the meter's range; not used", ohm_text));
-        continue;
+        reject_at(row, p.ohm,
+                  fmt::format("resistance '{}' is below the meter's range; not used", ohm_text));
+        return;
       } else {
         std::optional<detail::ScannedValue> value;
-        if (detail::ScannedValue plain; detail::scan_plain(ohm_text, decimal, plain))
-          value = plain;
+        if (detail::ScannedValue plain_value;
+            detail::scan_plain(ohm_text, decimal, plain_value, row.readable_end(p.ohm, text_end)))
+          value = plain_value;
         else
           value = detail::scan_resistance(ohm_text, decimal);
         if (!value) {
-          reject(&ohm_field, 0, 0,
-                 detail::is_non_finite_word(ohm_text)
-                     ? fmt::format("resistance '{}' is not a finite number", ohm_text)
-                     : fmt::format("resistance '{}' is not a number or an over-range marker",
-                                   ohm_text));
-          continue;
+          reject_at(row, p.ohm,
+                    detail::is_non_finite_word(ohm_text)
+                        ? fmt::format("resistance '{}' is not a finite number", ohm_text)
+                        : fmt::format("resistance '{}' is not a number or an over-range marker",
+                                      ohm_text));
+          return;
         }
         const double scale = value->self_scaled ? 1.0 : ohm_col.scale;
         r.ohm = value->value * scale;
         extra.half_step_ohm = value->half_step * scale;
         if (!std::isfinite(r.ohm)) {
-          reject(&ohm_field, 0, 0, fmt::format("resistance '{}' is not a finite number", ohm_text));
-          continue;
+          reject_at(row, p.ohm, fmt::format("resistance '{}' is not a finite number", ohm_text));
+          return;
         }
         if (!(r.ohm > 0)) {
-          reject(&ohm_field, 0, 0, fmt::format("resistance '{}' must be above zero", ohm_text));
-          continue;
+          reject_at(row, p.ohm, fmt::format("resistance '{}' must be above zero", ohm_text));
+          return;
         }
       }
 
       // Temperature (optional: a bad one is warned about and the reading kept without it).
-      if (temp_col && p.temp < fields.size()) {
-        const Field& tf = fields[p.temp];
-        const std::string_view t = detail::field_text(tf, scratch);
+      if (temp_col && p.temp < row.size()) {
+        const std::string_view t = row.text(p.temp, scratch);
         if (!t.empty()) {
           std::optional<detail::ScannedValue> tv;
-          if (detail::ScannedValue plain; detail::scan_plain(t, decimal, plain))
-            tv = plain;
+          if (detail::ScannedValue plain_value;
+              detail::scan_plain(t, decimal, plain_value, row.readable_end(p.temp, text_end)))
+            tv = plain_value;
           else
             tv = detail::scan_quantity(t, decimal, Quantity::temperature);
           const double temp_c =
@@ -670,6 +737,7 @@ class Builder {
           if (tv && std::isfinite(temp_c) && temp_c >= -273.15) {
             r.temp_c = temp_c;
           } else {
+            const Field tf = row.field(p.temp);
             note(file_index, tf.line, detail::column_of(tf.line_start, tf.start), Severity::warning,
                  fmt::format("temperature '{}' is not {}; reading kept without a temperature", t,
                              tv ? "above absolute zero" : "a number"));
@@ -681,8 +749,33 @@ class Builder {
                : extra.over_range ? ReadingKind::censored
                                   : ReadingKind::normal;
       const std::uint32_t u = unit_index(id);
+      grouped_ &= u >= last_pending_unit_;
+      last_pending_unit_ = u;
+      ++unit_rows_[u];
       pending_.push_back(Pending{r, extra, u});
       ++counts.rows_used;
+    };
+
+    for (;;) {
+      // The usual row first: one line, no quotes, as field offsets (PlainRow).
+      auto status = reader.next_plain(plain);
+      if (status == CsvReader::Status::record) {
+        process(PlainRow{plain});
+        continue;
+      }
+      if (status == CsvReader::Status::end) break;
+      status = reader.next(fields);
+      if (status == CsvReader::Status::end) break;
+      if (status == CsvReader::Status::unterminated_quote) {
+        last_line = reader.record_line();
+        ++counts.rows_read;
+        ++p.layout.data_rows;
+        reject(&fields.back(), 0, 0,
+               "quote opened here is never closed; the row is skipped and reading resumes on "
+               "the next line");
+        continue;
+      }
+      process(FieldRow{fields, reader.record_line(), reader.record_ascii()});
     }
     if (suppressed > 0)
       note(file_index, last_line, 0, Severity::note,
@@ -726,14 +819,18 @@ class Builder {
   void distribute() {
     const std::size_t n_units = lot_.units.size();
     std::vector<std::uint32_t> start(n_units + 1, 0);
-    for (const auto& p : pending_) ++start[p.unit + 1];
-    for (std::size_t u = 0; u < n_units; ++u) start[u + 1] += start[u];
-    std::vector<std::uint32_t> slots(pending_.size());
-    {
+    for (std::size_t u = 0; u < n_units; ++u) start[u + 1] = start[u] + unit_rows_[u];
+    // Readings usually arrive a unit at a time (unit indices never fall): then the units'
+    // readings already lie contiguous in file order and need no regrouping.
+    std::vector<std::uint32_t> slots;
+    if (!grouped_) {
+      slots.resize(pending_.size());
       std::vector<std::uint32_t> fill(start.begin(), start.end() - 1);
       for (std::uint32_t i = 0; i < pending_.size(); ++i) slots[fill[pending_[i].unit]++] = i;
     }
-    std::vector<std::uint8_t> dropped(pending_.size(), 0);
+    const bool grouped = grouped_;
+    auto slot = [&](std::uint32_t k) { return grouped ? k : slots[k]; };
+    std::vector<std::uint8_t> dropped;  // made for the first unit that needs the check
     std::vector<std::uint32_t> order;
     auto before = [&](std::uint32_t a, std::uint32_t b) {
       const Reading& x = pending_[a].r;
@@ -745,24 +842,42 @@ class Builder {
     };
     for (std::size_t u = 0; u < n_units; ++u) {
       const std::uint32_t b = start[u], e = start[u + 1];
-      if (e - b >= 2) {
-        order.assign(slots.begin() + b, slots.begin() + e);  // file order
-        if (order.size() <= 32) {
-          for (std::size_t i = 1; i < order.size(); ++i) {  // insertion sort: stable, small
-            const std::uint32_t v = order[i];
-            std::size_t j = i;
-            for (; j > 0 && before(v, order[j - 1]); --j) order[j] = order[j - 1];
-            order[j] = v;
-          }
-        } else {
-          std::stable_sort(order.begin(), order.end(), before);
-        }
-        check_group_duplicates(u, order, dropped);
-      }
       auto& readings = lot_.units[u].readings;
       readings.reserve(e - b);
+      // Illuminance strictly rising in file order (the usual sweep): already sorted, and no two
+      // readings share a key, so there is nothing to sort or to check. Copied while checking.
+      bool rising = true;
+      double previous_lux = -std::numeric_limits<double>::infinity();
       for (std::uint32_t k = b; k < e; ++k) {
-        const std::uint32_t i = slots[k];
+        const Reading& r = pending_[slot(k)].r;
+        if (!(r.lux > previous_lux)) {
+          rising = false;
+          break;
+        }
+        previous_lux = r.lux;
+        readings.push_back(r);
+      }
+      if (rising) {
+        for (std::uint32_t k = b; k < e; ++k) tally_kept(pending_[slot(k)]);
+        continue;
+      }
+      readings.clear();
+      if (dropped.empty()) dropped.assign(pending_.size(), 0);
+      order.resize(e - b);
+      for (std::uint32_t k = b; k < e; ++k) order[k - b] = slot(k);  // file order
+      if (order.size() <= 32) {
+        for (std::size_t i = 1; i < order.size(); ++i) {  // insertion sort: stable, small
+          const std::uint32_t v = order[i];
+          std::size_t j = i;
+          for (; j > 0 && before(v, order[j - 1]); --j) order[j] = order[j - 1];
+          order[j] = v;
+        }
+      } else {
+        std::stable_sort(order.begin(), order.end(), before);
+      }
+      check_group_duplicates(u, order, dropped);
+      for (std::uint32_t k = b; k < e; ++k) {
+        const std::uint32_t i = slot(k);
         if (dropped[i]) continue;
         readings.push_back(pending_[i].r);
         tally_kept(pending_[i]);
@@ -862,7 +977,14 @@ class Builder {
   std::vector<Pending> pending_;          // readings of all files, in file order
   std::vector<FileTally> tallies_;        // per file
   std::vector<std::uint32_t> diag_file_;  // file index of each diagnostic
-  std::unordered_map<std::string, std::uint32_t> ids_;
+  // Unit id -> index in lot_.units: open addressing with linear probing over a power-of-two
+  // table of (high 32 bits of the id's hash << 32 | index + 1), 0 for empty; the hashes kept
+  // per unit for growing the table. No node per id, no division per look-up.
+  std::vector<std::uint64_t> id_slots_;
+  std::vector<std::uint64_t> unit_hashes_;
+  std::vector<std::uint32_t> unit_rows_;  // readings waiting in pending_, per unit
+  bool grouped_ = true;                   // pending_ holds each unit's readings contiguous
+  std::uint32_t last_pending_unit_ = 0;
   std::string last_id_;
   std::uint32_t last_index_ = 0;
   bool have_last_ = false;

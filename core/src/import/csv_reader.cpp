@@ -97,53 +97,83 @@ void CsvReader::skip_line() {
   line_start_ = pos_;
 }
 
-// The usual record: one line with no quote character. Splits it at the delimiter into exactly
-// the fields the general loop below would make, and notes whether it is all ASCII. Returns
-// false, with nothing changed but `fields`, when the line holds a quote.
-bool CsvReader::next_simple(std::vector<Field>& fields) {
-  const char* base = text_.data();
-  const std::size_t n = text_.size();
-  const char* const line_start = base + line_start_;
-  const std::uint32_t line = line_;
-  std::size_t begin = pos_;  // of the field being read
-  std::size_t p = pos_;
-  unsigned high = 0;  // bit 7 (scalar) or any bit (SIMD) set when a byte is not ASCII
-  auto emit = [&](std::size_t end) {
+namespace {
+
+// Where next_simple puts the fields it finds: the general reader's Field list, or the offsets
+// of a PlainRecord. emit() returns false when the record does not fit (then nothing is read).
+struct FieldSink {
+  std::vector<Field>& fields;
+  const char* base;
+  const char* line_start;
+  std::uint32_t line;
+  bool emit(std::size_t begin, std::size_t end) {
     Field& f = fields.emplace_back();
     f.raw = std::string_view(base + begin, end - begin);
     f.start = base + begin;
     f.line_start = line_start;
     f.line = line;
-  };
+    return true;
+  }
+  void abandon() { fields.clear(); }
+};
+
+struct PlainSink {
+  PlainRecord& record;
+  std::size_t line_offset;
+  std::uint32_t count = 0;
+  bool emit(std::size_t /*begin*/, std::size_t end) {
+    if (count == PlainRecord::kMaxFields) return false;
+    record.cut[++count] = static_cast<std::uint32_t>(end - line_offset + 1);
+    return true;
+  }
+  void abandon() {}
+};
+
+}  // namespace
+
+// The usual record: one line with no quote character. Splits it at the delimiter into exactly
+// the fields the general loop below would make, and notes whether it is all ASCII. Returns
+// false, with nothing changed but what the sink was given, when the line holds a quote or the
+// sink refuses a field.
+template <class Sink>
+bool CsvReader::next_simple(Sink& sink) {
+  const char* base = text_.data();
+  const std::size_t n = text_.size();
+  std::size_t begin = pos_;  // of the field being read
+  std::size_t p = pos_;
+  unsigned high = 0;  // bit 7 (scalar) or any bit (SIMD) set when a byte is not ASCII
 #if defined(__SSE2__)
-  // 16 bytes at a time: a mask of delimiters, quotes and line ends, and one of high bits.
+  // 16 bytes at a time: a mask of delimiters, one of quotes and line ends, one of high bits.
   const __m128i delimiter = _mm_set1_epi8(delimiter_);
   const __m128i lf = _mm_set1_epi8('\n');
   const __m128i cr = _mm_set1_epi8('\r');
   const __m128i quote = _mm_set1_epi8('"');
   while (p + 16 <= n) {
     const __m128i v = _mm_loadu_si128(reinterpret_cast<const __m128i*>(base + p));
-    const __m128i hit =
-        _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(v, delimiter), _mm_cmpeq_epi8(v, quote)),
-                     _mm_or_si128(_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)));
-    unsigned stops = static_cast<unsigned>(_mm_movemask_epi8(hit));
+    unsigned delimiters = static_cast<unsigned>(_mm_movemask_epi8(_mm_cmpeq_epi8(v, delimiter)));
+    const unsigned others = static_cast<unsigned>(_mm_movemask_epi8(_mm_or_si128(
+        _mm_cmpeq_epi8(v, quote), _mm_or_si128(_mm_cmpeq_epi8(v, lf), _mm_cmpeq_epi8(v, cr)))));
     const unsigned highs = static_cast<unsigned>(_mm_movemask_epi8(v));
-    while (stops != 0) {
-      const unsigned k = static_cast<unsigned>(__builtin_ctz(stops));
-      const char c = base[p + k];
-      if (c == delimiter_) {
-        emit(p + k);
-        begin = p + k + 1;
-        stops &= stops - 1;
-        continue;
-      }
-      if (c == '"') {
-        fields.clear();
+    if (others != 0) {
+      const unsigned k = static_cast<unsigned>(__builtin_ctz(others));
+      if (base[p + k] == '"') {
+        sink.abandon();
         return false;
+      }
+      delimiters &= (1u << k) - 1;
+      for (; delimiters != 0; delimiters &= delimiters - 1) {
+        const std::size_t at = p + static_cast<unsigned>(__builtin_ctz(delimiters));
+        if (!sink.emit(begin, at)) return false;
+        begin = at + 1;
       }
       high |= highs & ((1u << k) - 1);
       p += k;
       goto line_end;
+    }
+    for (; delimiters != 0; delimiters &= delimiters - 1) {
+      const std::size_t at = p + static_cast<unsigned>(__builtin_ctz(delimiters));
+      if (!sink.emit(begin, at)) return false;
+      begin = at + 1;
     }
     high |= highs;
     p += 16;
@@ -153,12 +183,12 @@ bool CsvReader::next_simple(std::vector<Field>& fields) {
     if (p >= n) break;
     const unsigned char c = static_cast<unsigned char>(base[p]);
     if (c == static_cast<unsigned char>(delimiter_)) {
-      emit(p);
+      if (!sink.emit(begin, p)) return false;
       begin = p + 1;
       continue;
     }
     if (c == '"') {
-      fields.clear();
+      sink.abandon();
       return false;
     }
     if (c == '\n' || c == '\r') break;
@@ -167,7 +197,7 @@ bool CsvReader::next_simple(std::vector<Field>& fields) {
 #if defined(__SSE2__)
 line_end:
 #endif
-  emit(p);
+  if (!sink.emit(begin, p)) return false;
   record_begin_ = pos_;
   record_line_ = line_;
   record_line_start_ = line_start_;
@@ -182,33 +212,58 @@ line_end:
   return true;
 }
 
-CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
-  fields.clear();
+// Blank lines, lines of delimiters only, and '#' comment lines.
+bool CsvReader::skip_blank_lines() {
   const char* base = text_.data();
   const std::size_t n = text_.size();
   const bool tab_is_space = delimiter_ != '\t';
-
-  // Blank lines, lines of delimiters only, and '#' comment lines.
   for (;;) {
-    if (pos_ >= n) return Status::end;
+    if (pos_ >= n) return false;
     const char c0 = base[pos_];
     if (c0 != ' ' && c0 != '\t' && c0 != '#' && !stop_[static_cast<unsigned char>(c0)])
-      break;  // the usual case: the line starts with data
+      return true;  // the usual case: the line starts with data
     std::size_t p = pos_;
     while (p < n && (base[p] == ' ' || base[p] == delimiter_ || (tab_is_space && base[p] == '\t')))
       ++p;
     if (p >= n) {
       pos_ = n;
-      return Status::end;
+      return false;
     }
     if (base[p] == '\n' || base[p] == '\r' || base[p] == '#') {
       skip_line();
       continue;
     }
-    break;
+    return true;
   }
+}
 
-  if (simple_enabled_ && next_simple(fields)) return Status::record;
+CsvReader::Status CsvReader::next_plain(PlainRecord& record) {
+  if (pos_ >= text_.size()) return Status::end;
+  const char c0 = text_[pos_];
+  if ((c0 == ' ' || c0 == '\t' || c0 == '#' || stop_[static_cast<unsigned char>(c0)]) &&
+      !skip_blank_lines())
+    return Status::end;
+  if (!simple_enabled_) return Status::not_plain;
+  PlainSink sink{record, line_start_};
+  if (!next_simple(sink)) return Status::not_plain;
+  record.line_start = text_.data() + record_line_start_;
+  record.line = record_line_;
+  record.count = sink.count;
+  record.ascii = record_ascii_;
+  return Status::record;
+}
+
+CsvReader::Status CsvReader::next(std::vector<Field>& fields) {
+  fields.clear();
+  const char* base = text_.data();
+  const std::size_t n = text_.size();
+  const bool tab_is_space = delimiter_ != '\t';
+  if (!skip_blank_lines()) return Status::end;
+
+  if (simple_enabled_) {
+    FieldSink sink{fields, base, base + line_start_, line_};
+    if (next_simple(sink)) return Status::record;
+  }
   record_ascii_ = false;
   record_begin_ = pos_;
   record_line_ = line_;

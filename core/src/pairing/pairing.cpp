@@ -13,6 +13,8 @@
 #include <cstdint>
 #include <limits>
 #include <numeric>
+#include <tuple>
+#include <utility>
 
 #include "lemon_cxx20.h"
 
@@ -248,8 +250,9 @@ struct Solution {
 using Graph = lemon::SmartGraph;
 using Matcher = lemon::MaxWeightedMatching<Graph, Graph::EdgeMap<std::int64_t>>;
 
-// Solves one connected component (nodes sorted, edges among them) into `sol`.
-void solve_component(const std::vector<std::uint32_t>& nodes, const std::vector<const Edge*>& edges,
+// Solves one connected component (its nodes in the order the matching is to see them, the
+// edges among them) into `sol`.
+void solve_component(const std::vector<std::uint32_t>& nodes, std::vector<const Edge*> edges,
                      std::int64_t big, std::vector<std::uint32_t>& local, Solution& sol) {
   Graph g;
   g.reserveNode(static_cast<int>(nodes.size()));
@@ -259,6 +262,12 @@ void solve_component(const std::vector<std::uint32_t>& nodes, const std::vector<
     handle[k] = g.addNode();
     local[nodes[k]] = static_cast<std::uint32_t>(k);
   }
+  // Edges in the nodes' order, so that the edge arrays follow the node arrays.
+  std::sort(edges.begin(), edges.end(), [&](const Edge* a, const Edge* b) {
+    const std::pair<std::uint32_t, std::uint32_t> ka = std::minmax(local[a->i], local[a->j]);
+    const std::pair<std::uint32_t, std::uint32_t> kb = std::minmax(local[b->i], local[b->j]);
+    return ka < kb;
+  });
   Graph::EdgeMap<std::int64_t> weight(g);
   for (const Edge* e : edges) {
     const Graph::Edge ge = g.addEdge(handle[local[e->i]], handle[local[e->j]]);
@@ -408,9 +417,12 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
       nodes, grid, tol_ln, o.tolerance_pct,
       [&](std::uint32_t i, std::uint32_t j, double err) {
         const std::int64_t c = costing.cost(err);
-        const Wide cover = Wide(sol.potential[i]) + sol.potential[j] + forest.shared_value(i, j);
-        if (cover < Wide(Matcher::dualScale) * (costing.big - c))
-          r.violations.push_back({i, j, err, c});
+        const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
+        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
+        // Blossom values were checked non-negative above, so an edge the two node values
+        // cover needs no blossom sum.
+        if (nodes_cover >= need) return;
+        if (nodes_cover + forest.shared_value(i, j) < need) r.violations.push_back({i, j, err, c});
       },
       stop);
   r.stopped = !ok;
@@ -624,6 +636,34 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
 
   // 2. Solve per connected component, check the certificate on every edge within tolerance,
   //    add the edges that violate it and solve the touched components again.
+  // The order the matching sees the units in: along a Z-order curve over the grid's cells,
+  // so that units near in the plane (the only ones joined by edges) are near in LEMON's
+  // arrays; or the lot order.
+  std::vector<std::uint32_t> solve_order(n);
+  std::iota(solve_order.begin(), solve_order.end(), 0u);
+  if (o.spatial_order && n > 1) {
+    const double cell = std::max(tol_ln, 1e-9) * (1 + 1e-9);
+    std::vector<std::int64_t> cx(n), cy(n);
+    for (std::uint32_t v = 0; v < n; ++v) {
+      cx[v] = static_cast<std::int64_t>(std::floor(nodes.x[v] / cell));
+      cy[v] = static_cast<std::int64_t>(std::floor(nodes.y[v] / cell));
+    }
+    const std::int64_t x0 = *std::min_element(cx.begin(), cx.end());
+    const std::int64_t y0 = *std::min_element(cy.begin(), cy.end());
+    auto spread = [](std::uint64_t a) {  // bits of a at the even positions
+      std::uint64_t r = 0;
+      for (int b = 0; b < 32; ++b) r |= ((a >> b) & 1u) << (2 * b);
+      return r;
+    };
+    std::vector<std::uint64_t> key(n);
+    for (std::uint32_t v = 0; v < n; ++v)
+      key[v] = spread(std::uint64_t(cx[v] - x0) & 0xffffffffu) |
+               (spread(std::uint64_t(cy[v] - y0) & 0xffffffffu) << 1);
+    std::sort(solve_order.begin(), solve_order.end(), [&](std::uint32_t a, std::uint32_t b) {
+      return std::tie(key[a], a) < std::tie(key[b], b);
+    });
+  }
+
   Solution sol;
   sol.mate.assign(n, -1);
   sol.potential.assign(n, 0);
@@ -642,7 +682,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     DisjointSets sets(n);
     for (const Edge& e : edges) sets.unite(e.i, e.j);
     std::vector<std::vector<std::uint32_t>> members(n);
-    for (std::uint32_t v = 0; v < n; ++v) members[sets.find(v)].push_back(v);
+    for (std::uint32_t v : solve_order) members[sets.find(v)].push_back(v);
     std::vector<std::vector<const Edge*>> comp_edges(n);
     for (const Edge& e : edges) comp_edges[sets.find(e.i)].push_back(&e);
     // Edges are only ever added, so a component without a new edge is one solved before.

@@ -10,6 +10,8 @@
 
 #include "photolot/results.h"
 
+#include "../io/json_text.h"
+
 namespace photolot::results {
 namespace {
 
@@ -222,20 +224,6 @@ UnitFit unit_from_json(const Json& j, const Reader& r) {
     }
   }
   return u;
-}
-
-// 1-based line and column of a byte offset in text.
-std::pair<std::uint32_t, std::uint32_t> line_column(std::string_view text, std::size_t offset) {
-  std::uint32_t line = 1, column = 1;
-  for (std::size_t i = 0; i < offset && i < text.size(); ++i) {
-    if (text[i] == '\n') {
-      ++line;
-      column = 1;
-    } else {
-      ++column;
-    }
-  }
-  return {line, column};
 }
 
 }  // namespace
@@ -611,31 +599,9 @@ ReadResult from_json(const Json& j) {
 
 ReadResult from_json_text(std::string_view text) {
   Json j;
-  try {
-    j = Json::parse(text.begin(), text.end());
-  } catch (const Json::parse_error& e) {
+  if (auto e = json_text::parse(text, j)) {
     ReadResult result;
-    // byte is the 1-based position of the character where parsing stopped.
-    auto [line, column] = line_column(text, e.byte > 0 ? e.byte - 1 : 0);
-    std::string message = e.what();
-    // nlohmann's text starts "[json.exception.parse_error.101] parse error at line ..., column
-    // ...: "; keep what follows, as the place is reported separately.
-    if (auto pos = message.find(": "); pos != std::string::npos) message = message.substr(pos + 2);
-    result.error = ReadError{line, column, "not valid JSON: " + message};
-    return result;
-  } catch (const Json::out_of_range& e) {
-    // A number beyond a double (1e400): nlohmann names the token ("number overflow parsing
-    // '1e400'") but not its place; the first occurrence of the token is where it stands.
-    ReadResult result;
-    std::string message = e.what();
-    if (auto pos = message.find("] "); pos != std::string::npos) message = message.substr(pos + 2);
-    std::uint32_t line = 0, column = 0;
-    if (auto open = message.find('\''); open != std::string::npos) {
-      const std::string token = message.substr(open + 1, message.rfind('\'') - open - 1);
-      if (auto at = text.find(token); !token.empty() && at != std::string_view::npos)
-        std::tie(line, column) = line_column(text, at);
-    }
-    result.error = ReadError{line, column, "not valid JSON: " + message};
+    result.error = ReadError{e->line, e->column, std::move(e->message)};
     return result;
   }
   return from_json(j);

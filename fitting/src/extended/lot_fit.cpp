@@ -158,8 +158,7 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
   plain_options.over_range_bounds = ext.censored_terms;
   auto run_all = [&](const ExtendedFitOptions& e, std::string_view label, std::size_t done0,
                      std::size_t total) {
-    const bool plain =
-        e.model == ModelChoice::power_law && !e.bench && lt.source == "none";
+    const bool plain = e.model == ModelChoice::power_law && !e.bench && lt.source == "none";
     if (plain) out.method += "; units without over-range readings by the fast power-law fit";
     detail::for_each_index(
         n, options.threads, progress, stop,
@@ -200,7 +199,8 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
       [&](std::size_t i) {
         data[i] = extended::collect(lot.units[i], ext);
         fitted[i] =
-            extended::fit_unit_with(lot.units[i], data[i], TempSetting{}, options, ext, &first[i])
+            extended::fit_unit_with(lot.units[i], data[i], TempSetting{}, options, ext, &first[i],
+                                    /*check_scatter=*/false)
                 .ok();
       },
       0, 2 * n);

@@ -159,12 +159,12 @@ void set_uncertainties(UnitData& data, const FitOptions& options, const Extended
   for (std::size_t i = 0; i < data.terms.size(); ++i) {
     Term& t = data.terms[i];
     if (!ext.bench) {
-      t.sd = plain;
+      t.sd = plain * data.sd_scale;
       continue;
     }
     // Dark readings have no illuminance error; the others carry it through the local slope.
     const double g = t.dark || i >= local_gamma.size() ? 0.0 : local_gamma[i];
-    t.sd = ext.bench->ln_ohm_sd(t.ohm, g);
+    t.sd = ext.bench->ln_ohm_sd(t.ohm, g) * data.sd_scale;
   }
 }
 

@@ -46,6 +46,9 @@ struct UnitData {
   std::vector<double> dark_ohm;
   std::vector<bool> dark_censored;
   double temp_min_c = kNaN, temp_max_c = kNaN;  // over the lit readings with a temperature
+  // Every term's sd is the stated one (meter accuracy or bench profile) times this: above 1
+  // where the unit's scatter shows the stated uncertainties to be too small.
+  double sd_scale = 1;
 
   double temp_span_c() const;
   int lit_terms() const;  // points + bounds under light: the data both candidates explain
@@ -124,9 +127,12 @@ Curve to_curve(const Candidate& c, const TempSetting& temp);
 
 // The whole per-unit job with a fixed temperature setting: candidates, choice, UnitFit.
 // `data` gets the uncertainties the fit used; `chosen` (when given) the chosen candidate.
+// `check_scatter`: scale the stated uncertainties up where the unit's scatter shows them too
+// small (docs/models.md); off for the first pass of a lot's joint temperature fit, whose
+// scatter still holds the temperature effect the joint problem is about to fit.
 UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
                       const FitOptions& options, const ExtendedFitOptions& ext,
-                      Candidate* chosen = nullptr);
+                      Candidate* chosen = nullptr, bool check_scatter = true);
 
 // Free-parameter count of the temperature block.
 inline int temp_free(const TempSetting& t) {

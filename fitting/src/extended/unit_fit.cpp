@@ -1,7 +1,9 @@
-// The per-unit extended fit: Ceres problems for the power law and the dark-conductance model,
-// with one-sided terms for over-range readings, meter weights and an optional temperature term;
-// covariance from the Jacobian at the optimum; the AICc choice. Formulas in docs/models.md.
+// The per-unit extended fit: the power law and the dark-conductance model solved by TinySolver
+// (autodiff Jets), with one-sided terms for over-range readings, meter weights and an optional
+// temperature term; covariance from the Jacobian at the optimum; the AICc choice; and the lot's
+// joint temperature problem, the one full ceres::Problem. Formulas in docs/models.md.
 #include <ceres/ceres.h>
+#include <ceres/tiny_solver.h>
 #include <fmt/format.h>
 
 #include <Eigen/Dense>
@@ -9,6 +11,7 @@
 #include <cmath>
 #include <memory>
 
+#include "../robust_loss.h"
 #include "../unit_points.h"
 #include "terms.h"
 
@@ -86,30 +89,6 @@ double term_dt(const Term& t, const TempSetting& temp) {
   return t.temp_c - kReferenceTempC;
 }
 
-// rho(s) and rho'(s) of the loss, s = r^2, threshold 1 (one sd).
-double rho(Loss loss, double s) {
-  switch (loss) {
-    case Loss::huber:
-      return s <= 1.0 ? s : 2.0 * std::sqrt(s) - 1.0;
-    case Loss::cauchy:
-      return std::log1p(s);
-    case Loss::none:
-      return s;
-  }
-  return s;
-}
-double rho_prime(Loss loss, double s) {
-  switch (loss) {
-    case Loss::huber:
-      return s <= 1.0 ? 1.0 : 1.0 / std::sqrt(s);
-    case Loss::cauchy:
-      return 1.0 / (1.0 + s);
-    case Loss::none:
-      return 1.0;
-  }
-  return 1.0;
-}
-
 std::unique_ptr<ceres::LossFunction> make_loss(Loss loss) {
   switch (loss) {
     case Loss::huber:
@@ -152,6 +131,97 @@ bool uses_term(ModelKind model, const Term& t) {
   return !(t.dark && model == ModelKind::power_law);
 }
 
+// Where a candidate's parameters sit in the solver's vector: theta first, then the free parts
+// of the temperature block; the fixed parts keep the setting's values.
+struct Layout {
+  ModelKind model;
+  int n_theta;
+  bool free_tc10, free_slope;
+  std::array<double, 2> tc_fixed;
+  int size() const { return n_theta + (free_tc10 ? 1 : 0) + (free_slope ? 1 : 0); }
+};
+
+// One term's whitened residual (not yet through the loss) as a Jet: its value and its
+// derivatives by every solver parameter. Ceres's forward-mode autodiff on the same TermCost the
+// joint problem uses, so both fits see one model. `clamp` holds ln G_dark to its bounds (a step
+// beyond a bound sees the bound, with no pull further out), the way Ceres's bounded problem
+// projects onto them; false when the temperature factor is not positive.
+template <int N>
+bool jet_residual(const Layout& l, const Term& t, double dt_c, const double* p, bool clamp,
+                  ceres::Jet<double, N>& r) {
+  using J = ceres::Jet<double, N>;
+  std::array<J, 3> theta;
+  for (int k = 0; k < l.n_theta; ++k) theta[static_cast<std::size_t>(k)] = J(p[k], k);
+  if (clamp && l.model == ModelKind::dark_conductance) {
+    if (p[2] < kLnGDarkMin) theta[2] = J(kLnGDarkMin);
+    if (p[2] > kLnGDarkMax) theta[2] = J(kLnGDarkMax);
+  }
+  int k = l.n_theta;
+  std::array<J, 2> tc{J(l.tc_fixed[0]), J(l.tc_fixed[1])};
+  if (l.free_tc10) tc[0] = J(p[k], k), ++k;
+  if (l.free_slope) tc[1] = J(p[k], k);
+  return TermCost{l.model, t, dt_c}(theta.data(), tc.data(), &r);
+}
+
+// The candidate's folded residuals for TinySolver (robust loss folded in as in
+// power_law_fit.cpp, so that 1/2 sum f^2 is the robust cost), Jacobian column-major.
+template <int N>
+struct CandidateResiduals {
+  using Scalar = double;
+  enum { NUM_RESIDUALS = Eigen::Dynamic, NUM_PARAMETERS = N };
+  // A residual where the temperature factor is not positive: large enough that no step there
+  // is accepted, and flat.
+  static constexpr double kOutside = 1e6;
+
+  Layout layout;
+  const std::vector<const Term*>* terms;
+  const std::vector<double>* dt;
+  Loss loss;
+
+  int NumResiduals() const { return static_cast<int>(terms->size()); }
+
+  bool operator()(const double* p, double* residuals, double* jacobian) const {
+    const int n = NumResiduals();
+    for (int i = 0; i < n; ++i) {
+      const auto ui = static_cast<std::size_t>(i);
+      ceres::Jet<double, N> r;
+      const bool inside = jet_residual<N>(layout, *(*terms)[ui], (*dt)[ui], p, true, r);
+      const detail::Folded f = inside ? detail::fold(loss, r.a) : detail::Folded{kOutside, 0.0};
+      residuals[i] = f.f;
+      if (jacobian)
+        for (int j = 0; j < N; ++j) jacobian[j * n + i] = inside ? f.dfdr * r.v[j] : 0.0;
+    }
+    return true;
+  }
+};
+
+constexpr int kMaxIterations = 200;
+
+// Levenberg-Marquardt by TinySolver from p (the layout's parameters); p gets the result.
+// TinySolver's stopping tests are absolute: on whitened residuals a cost change of 1e-12 is
+// far below anything the intervals could show (as in power_law_fit.cpp).
+template <int N>
+void tiny_solve(const CandidateResiduals<N>& fn, std::vector<double>& p, Candidate& c) {
+  ceres::TinySolver<CandidateResiduals<N>> solver;
+  solver.options.max_num_iterations = kMaxIterations;
+  solver.options.gradient_tolerance = 1e-12;
+  solver.options.function_tolerance = 1e-12;
+  solver.options.parameter_tolerance = 1e-12;
+  Eigen::Matrix<double, N, 1> x;
+  for (int k = 0; k < N; ++k) x[k] = p[static_cast<std::size_t>(k)];
+  const auto& summary = solver.Solve(fn, &x);
+  bool finite = true;
+  for (int k = 0; k < N; ++k) finite = finite && std::isfinite(x[k]);
+  c.iterations = summary.iterations;
+  c.converged = finite && summary.status != decltype(solver)::HIT_MAX_ITERATIONS;
+  c.solver_report = fmt::format(
+      "TinySolver: {} iterations, cost {:.6g} -> {:.6g}, {}", summary.iterations,
+      summary.initial_cost, summary.final_cost,
+      finite ? (c.converged ? "converged" : "iteration limit reached") : "left the finite numbers");
+  if (finite)
+    for (int k = 0; k < N; ++k) p[static_cast<std::size_t>(k)] = x[k];
+}
+
 Candidate solve_once(const UnitData& data, ModelKind model, const TempSetting& temp,
                      const FitOptions& options, bool meter_floor, std::vector<double> theta0,
                      bool solve = true) {
@@ -160,77 +230,86 @@ Candidate solve_once(const UnitData& data, ModelKind model, const TempSetting& t
   c.theta = std::move(theta0);
   c.tc = {temp.tc10_pct_per_c, temp.slope_pct_per_c_per_decade};
   const int n_theta = static_cast<int>(c.theta.size());
+  const Layout layout{model, n_theta, temp.free_tc10, temp.free_slope, c.tc};
+  const int n_free = layout.size();
+  if (model == ModelKind::dark_conductance)
+    c.theta[2] = std::clamp(c.theta[2], kLnGDarkMin, kLnGDarkMax);
 
-  auto loss = make_loss(options.loss);
-  ceres::Problem::Options popt;
-  popt.loss_function_ownership = ceres::DO_NOT_TAKE_OWNERSHIP;
-  ceres::Problem problem(popt);
-  problem.AddParameterBlock(c.theta.data(), n_theta);
-  problem.AddParameterBlock(c.tc.data(), 2);
-  std::vector<ceres::CostFunction*> costs(data.terms.size(), nullptr);
+  // The terms this model uses, and their temperature offsets.
+  std::vector<const Term*> used;
+  std::vector<double> dts;
+  std::vector<std::size_t> used_index;
+  used.reserve(data.terms.size());
   for (std::size_t i = 0; i < data.terms.size(); ++i) {
     const Term& t = data.terms[i];
     if (!uses_term(model, t)) continue;
-    costs[i] =
-        add_term(problem, model, t, term_dt(t, temp), loss.get(), c.theta.data(), c.tc.data());
-  }
-  if (model == ModelKind::dark_conductance) {
-    c.theta[2] = std::clamp(c.theta[2], kLnGDarkMin, kLnGDarkMax);
-    problem.SetParameterLowerBound(c.theta.data(), 2, kLnGDarkMin);
-    problem.SetParameterUpperBound(c.theta.data(), 2, kLnGDarkMax);
-  }
-  if (!temp.free_tc10 && !temp.free_slope) {
-    problem.SetParameterBlockConstant(c.tc.data());
-  } else if (!temp.free_slope) {
-    problem.SetManifold(c.tc.data(), new ceres::SubsetManifold(2, {1}));
-  } else if (!temp.free_tc10) {
-    problem.SetManifold(c.tc.data(), new ceres::SubsetManifold(2, {0}));
+    used.push_back(&t);
+    dts.push_back(term_dt(t, temp));
+    used_index.push_back(i);
   }
 
-  const ceres::Solver::Options so = solver_options(ceres::DENSE_QR, 1e-14);
+  std::vector<double> p(c.theta);
+  if (temp.free_tc10) p.push_back(c.tc[0]);
+  if (temp.free_slope) p.push_back(c.tc[1]);
   if (solve) {
-    ceres::Solver::Summary summary;
-    ceres::Solve(so, &problem, &summary);
-    c.converged = summary.termination_type == ceres::CONVERGENCE;
-    c.iterations = static_cast<int>(summary.iterations.size()) - 1;
-    c.solver_report = summary.BriefReport();
+    // One fixed-size solver per parameter count: 2 or 3 curve parameters, 0 to 2 temperature.
+    switch (n_free) {
+      case 2:
+        tiny_solve<2>({layout, &used, &dts, options.loss}, p, c);
+        break;
+      case 3:
+        tiny_solve<3>({layout, &used, &dts, options.loss}, p, c);
+        break;
+      case 4:
+        tiny_solve<4>({layout, &used, &dts, options.loss}, p, c);
+        break;
+      default:
+        tiny_solve<5>({layout, &used, &dts, options.loss}, p, c);
+        break;
+    }
+    for (int k = 0; k < n_theta; ++k)
+      c.theta[static_cast<std::size_t>(k)] = p[static_cast<std::size_t>(k)];
+    if (model == ModelKind::dark_conductance)
+      c.theta[2] = std::clamp(c.theta[2], kLnGDarkMin, kLnGDarkMax);
+    int k = n_theta;
+    if (temp.free_tc10) c.tc[0] = p[static_cast<std::size_t>(k++)];
+    if (temp.free_slope) c.tc[1] = p[static_cast<std::size_t>(k)];
+    p.assign(c.theta.begin(), c.theta.end());
+    if (temp.free_tc10) p.push_back(c.tc[0]);
+    if (temp.free_slope) p.push_back(c.tc[1]);
   } else {
     c.converged = true;
   }
 
-  // Residuals, robust weights and the Jacobian of the free parameters at the optimum.
-  const int n_free = n_theta + temp_free(temp);
+  // Residuals, robust weights and the Jacobian of the free parameters at the optimum, from the
+  // same Jets the solver used (no clamp: the parameters are within their bounds here). The
+  // information J^T W J is what ceres::Covariance would invert for these terms (checked
+  // against it in tests/models).
   c.free_parameters = n_free;
   const std::size_t n = data.terms.size();
   c.residual.assign(n, 0.0);
   c.weight.assign(n, 1.0);
-  Eigen::MatrixXd h = Eigen::MatrixXd::Zero(n_free, n_free);
+  Eigen::Matrix<double, 5, 5> h5 = Eigen::Matrix<double, 5, 5>::Zero();
   double chi2 = 0, robust = 0, lit_rss = 0;
   int point_terms = 0, lit = 0;
-  std::vector<double> j_theta(static_cast<std::size_t>(n_theta)), j_tc(2);
-  Eigen::VectorXd row(n_free);
-  for (std::size_t i = 0; i < n; ++i) {
-    if (costs[i] == nullptr) continue;
-    const double* params[2] = {c.theta.data(), c.tc.data()};
-    double* jac[2] = {j_theta.data(), j_tc.data()};
-    double r = 0;
-    costs[i]->Evaluate(params, &r, jac);
-    const double s = r * r;
+  for (std::size_t u = 0; u < used.size(); ++u) {
+    const std::size_t i = used_index[u];
+    ceres::Jet<double, 5> rj;
+    jet_residual<5>(layout, *used[u], dts[u], p.data(), false, rj);
+    const double r = rj.a;
+    const detail::LossTerms lt = detail::loss_terms(options.loss, r);
     c.residual[i] = r;
-    c.weight[i] = rho_prime(options.loss, s);
-    robust += rho(options.loss, s);
-    chi2 += c.weight[i] * s;
+    c.weight[i] = lt.weight;
+    robust += lt.rho;
+    chi2 += lt.weight * r * r;
     if (!data.terms[i].bound) ++point_terms;
     if (!data.terms[i].dark) {
       ++lit;
-      lit_rss += rho(options.loss, s);
+      lit_rss += lt.rho;
     }
-    int k = 0;
-    for (int j = 0; j < n_theta; ++j) row[k++] = j_theta[static_cast<std::size_t>(j)];
-    if (temp.free_tc10) row[k++] = j_tc[0];
-    if (temp.free_slope) row[k++] = j_tc[1];
-    h += c.weight[i] * row * row.transpose();
+    h5.noalias() += lt.weight * rj.v * rj.v.transpose();
   }
+  const Eigen::MatrixXd h = h5.topLeftCorner(n_free, n_free);
   c.cost = 0.5 * robust;
   c.dof = point_terms - n_free;
   // Scale: the scatter about the curve (chi2 / dof). With a bench profile the meter's stated
@@ -361,11 +440,34 @@ std::vector<double> local_gammas(const UnitData& data, const Candidate* c, doubl
   return g;
 }
 
+// The scatter of the lit points about a candidate's curve in units of their stated sd: the
+// normal-consistent median absolute whitened residual (1.4826 x MAD) over the points, leaving
+// out the p smallest, which a fit with p parameters can make as small as it likes (a fit whose
+// points are nearly all beyond the loss's corner runs through p of them, as least absolute
+// deviations does, and the plain MAD would then read the scatter low). A few wild points
+// barely move it. NaN when there are no dof.
+double whitened_scatter(const UnitData& data, const Candidate& c) {
+  std::vector<double> a;
+  for (std::size_t i = 0; i < data.terms.size() && i < c.residual.size(); ++i)
+    if (!data.terms[i].dark && !data.terms[i].bound) a.push_back(std::abs(c.residual[i]));
+  const auto p = static_cast<std::size_t>(std::max(0, c.free_parameters));
+  if (a.size() <= p) return kNaN;
+  std::sort(a.begin(), a.end());
+  a.erase(a.begin(), a.begin() + static_cast<std::ptrdiff_t>(p));
+  return 1.4826 * detail::median_in_place(a) * data.sd_scale;
+}
+
+// Scatter beyond this many stated sds means the stated uncertainties are too small. Leaving
+// out the p smallest residuals reads an honest unit's scatter about a quarter high (for ten
+// points and two parameters: the median of the other eight sits at the 60th percentile), so
+// this triggers from about 1.6 times the stated sd.
+constexpr double kUnderstated = 2.0;
+
 }  // namespace
 
 UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
                       const FitOptions& options, const ExtendedFitOptions& ext,
-                      Candidate* chosen_out) {
+                      Candidate* chosen_out, bool check_scatter) {
   // Counts, flags and the can-it-be-fitted checks are the plain fit's (unit_points.h), so a
   // unit gets the same status and message whichever fit runs.
   const detail::UnitPoints pts = detail::collect_points(unit);
@@ -387,6 +489,7 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
 
   Candidate pl, dc;
   std::vector<double> gammas;
+  data.sd_scale = 1;
   {
     double a = 0, g = 0.7;
     set_uncertainties(data, options, ext, std::vector<double>(data.terms.size(), g));
@@ -394,20 +497,35 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
     gammas.assign(data.terms.size(), g);
   }
   const Candidate* chosen = nullptr;
-  for (int pass = 0; pass < ext.weight_passes; ++pass) {
-    set_uncertainties(data, options, ext, gammas);
-    if (try_pl) pl = fit_candidate(data, ModelKind::power_law, temp, options, ext);
-    if (try_dc) dc = fit_candidate(data, ModelKind::dark_conductance, temp, options, ext);
-    if (!try_dc)
-      chosen = &pl;
-    else if (!try_pl)
-      chosen = &dc;
-    else if (std::isfinite(dc.aicc) && dc.converged && (!pl.converged || dc.aicc < pl.aicc))
-      chosen = &dc;
-    else
-      chosen = &pl;
-    if (!ext.bench || ext.bench->lux_pct == 0) break;  // weights do not depend on gamma
-    gammas = local_gammas(data, chosen, 0.7);
+  auto choose_with_weights = [&] {
+    for (int pass = 0; pass < ext.weight_passes; ++pass) {
+      set_uncertainties(data, options, ext, gammas);
+      if (try_pl) pl = fit_candidate(data, ModelKind::power_law, temp, options, ext);
+      if (try_dc) dc = fit_candidate(data, ModelKind::dark_conductance, temp, options, ext);
+      if (!try_dc)
+        chosen = &pl;
+      else if (!try_pl)
+        chosen = &dc;
+      else if (std::isfinite(dc.aicc) && dc.converged && (!pl.converged || dc.aicc < pl.aicc))
+        chosen = &dc;
+      else
+        chosen = &pl;
+      if (!ext.bench || ext.bench->lux_pct == 0) break;  // weights do not depend on gamma
+      gammas = local_gammas(data, chosen, 0.7);
+    }
+  };
+  choose_with_weights();
+  // A bench noisier than its stated uncertainties (a profile that claims 0.1 % on readings
+  // scattered by 0.5 %) would put nearly every point beyond the loss's corner: the fit turns
+  // into a least-absolute-deviations crawl, good points are flagged as outliers and the
+  // intervals claim the profile's precision. Where the scatter is more than kUnderstated times
+  // the stated sd, every sd is scaled up to the scatter seen and the choice is made again
+  // (docs/models.md); the unit says so.
+  const double scatter = check_scatter ? whitened_scatter(data, *chosen) : kNaN;
+  const bool understated = scatter > kUnderstated;
+  if (understated) {
+    data.sd_scale = scatter;
+    choose_with_weights();
   }
   const Candidate& c = *chosen;
   if (chosen_out != nullptr) *chosen_out = c;
@@ -417,7 +535,7 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
   f.iterations = c.iterations;
   f.cost = c.cost;
   f.dof = std::max(0, c.dof);
-  if (!c.converged && c.iterations >= 200) {
+  if (!c.converged && c.iterations >= kMaxIterations) {
     f.status = FitStatus::solver_failed;
     f.message = "not fitted: the solver did not converge (" + c.solver_report + ")";
     return f;
@@ -480,6 +598,14 @@ UnitFit fit_unit_with(const Unit& unit, UnitData& data, const TempSetting& temp,
     f.message += fmt::format(", {} over-range bound{}", bounds_used, bounds_used == 1 ? "" : "s");
   if (data.censored - bounds_used > 0)
     f.message += fmt::format(", {} over-range readings not used", data.censored - bounds_used);
+  if (understated) {
+    f.flags.emplace_back(ext.bench ? "scatter-above-bench-profile"
+                                   : "scatter-above-meter-accuracy");
+    f.message += fmt::format(
+        "; scatter {:.3g} x the {} states, so its uncertainties were scaled up to the scatter "
+        "seen",
+        scatter, ext.bench ? "bench profile" : "meter accuracy");
+  }
   return f;
 }
 

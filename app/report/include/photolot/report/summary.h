@@ -19,6 +19,7 @@
 #include <vector>
 
 #include "photolot/acceptance.h"
+#include "photolot/bench_profile.h"
 #include "photolot/fit_result.h"
 #include "photolot/lot.h"
 #include "photolot/spec.h"
@@ -62,6 +63,11 @@ struct SummaryInput {
   const Acceptance* acceptance = nullptr;              // optional: the disposition and its rule
   const std::vector<UnitVerdict>* verdicts = nullptr;  // optional: nonconforming units, reasons
   std::optional<PairsSection> pairs;                   // optional
+  // optional: the meters' accuracies the fit weighted the readings by, and the file they came
+  // from (printed as its name). Without one the summary says no bench profile was used, unless
+  // the fit's method says it used one (then it says the accuracies were not passed on).
+  const BenchProfile* bench = nullptr;
+  std::string bench_profile_file;
 
   SummaryHeader header;
   PageSize page_size = PageSize::a4;
