@@ -1,5 +1,7 @@
 #include "acceptance_view.h"
 
+#include <fmt/format.h>
+
 #include <QComboBox>
 #include <QFormLayout>
 #include <QGroupBox>
@@ -10,11 +12,8 @@
 #include <QPushButton>
 #include <QScrollArea>
 #include <QVBoxLayout>
-
 #include <charconv>
 #include <cmath>
-
-#include <fmt/format.h>
 
 #include "display_format.h"
 #include "photolot/units.h"
@@ -38,9 +37,10 @@ bool read_value(const QLineEdit* edit, bool ohm, double& out, const QString& fie
   }
   const auto value = ohm ? parse_resistance(text, '.') : parse_number(text, '.', false);
   if (!value) {
-    if (problem) *problem = QObject::tr("%1: \"%2\" is not a %3").arg(field, edit->text(),
-                                                                     ohm ? QObject::tr("resistance")
-                                                                         : QObject::tr("number"));
+    if (problem)
+      *problem =
+          QObject::tr("%1: \"%2\" is not a %3")
+              .arg(field, edit->text(), ohm ? QObject::tr("resistance") : QObject::tr("number"));
     return false;
   }
   out = *value;
@@ -82,7 +82,8 @@ AcceptanceView::AcceptanceView(QWidget* parent) : QWidget(parent) {
   level_->addItem(QStringLiteral("III"), static_cast<int>(InspectionLevel::level_iii));
   level_->setCurrentIndex(1);
   aql_ = new QComboBox(this);
-  for (double a : tabulated_aqls()) aql_->addItem(QString::fromStdString(fmt::format("{} %", a)), a);
+  for (double a : tabulated_aqls())
+    aql_->addItem(QString::fromStdString(fmt::format("{} %", a)), a);
   aql_->setCurrentIndex(std::max(0, aql_->findData(1.0)));
   lot_size_ = edit(this, tr("units in the lot (needed for a sampling plan)"));
   coverage_ = edit(this, QStringLiteral("0.99"));
@@ -99,6 +100,13 @@ AcceptanceView::AcceptanceView(QWidget* parent) : QWidget(parent) {
   form->addRow(tr("gamma max"), gamma_max_);
   form->addRow(tr("Dark min (Ω)"), dark_min_);
   form->addRow(tr("Max RMS ln R"), rms_max_);
+  temp_coeff_ = new QLineEdit(this);
+  temp_coeff_->setObjectName(QStringLiteral("specTempCoeff"));
+  temp_coeff_->setPlaceholderText(tr("none"));
+  temp_coeff_->setToolTip(
+      tr("Temperature coefficient of resistance at 10 lx, applied where the "
+         "readings do not span enough temperature to fit one"));
+  form->addRow(tr("Temp. coeff. (%/°C)"), temp_coeff_);
   form->addRow(tr("Inspection"), mode_);
   form->addRow(tr("Level"), level_);
   form->addRow(tr("AQL"), aql_);
@@ -152,6 +160,11 @@ AcceptanceView::AcceptanceView(QWidget* parent) : QWidget(parent) {
   result_layout->addWidget(counts_);
   result_layout->addWidget(plan_);
   result_layout->addWidget(statistics_);
+  fit_handling_ = new QLabel(this);
+  fit_handling_->setObjectName(QStringLiteral("fitHandling"));
+  fit_handling_->setWordWrap(true);
+  fit_handling_->setTextFormat(Qt::RichText);
+  result_layout->addWidget(fit_handling_);
   result_layout->addWidget(new QLabel(tr("Nonconforming units (double-click to select):"), this));
   result_layout->addWidget(rejected_, 1);
   result_layout->addWidget(summary_button_, 0, Qt::AlignLeft);
@@ -182,8 +195,9 @@ AcceptanceView::AcceptanceView(QWidget* parent) : QWidget(parent) {
     }
     emit specApplied(spec);
   });
-  connect(rejected_, &QListWidget::itemDoubleClicked, this,
-          [this](QListWidgetItem* item) { emit unitActivated(item->data(Qt::UserRole).toString()); });
+  connect(rejected_, &QListWidget::itemDoubleClicked, this, [this](QListWidgetItem* item) {
+    emit unitActivated(item->data(Qt::UserRole).toString());
+  });
   setAnalysis(nullptr, 0, false);
 }
 
@@ -197,6 +211,7 @@ void AcceptanceView::showSpec(const std::optional<Spec>& spec) {
   gamma_max_->setText(text_of(s.gamma.max, false));
   dark_min_->setText(text_of(s.dark_min_ohm, true));
   rms_max_->setText(text_of(s.max_rms_log_residual, false));
+  temp_coeff_->setText(text_of(s.temp_coeff_pct_per_c, false));
   mode_->setCurrentIndex(mode_->findData(static_cast<int>(s.inspection.mode)));
   level_->setCurrentIndex(level_->findData(static_cast<int>(s.inspection.level)));
   const int aql = aql_->findData(s.inspection.aql_pct);
@@ -222,7 +237,8 @@ std::optional<Spec> AcceptanceView::specFromForm(QString* problem) const {
       !read_value(gamma_min_, false, s.gamma.min, tr("gamma min"), problem) ||
       !read_value(gamma_max_, false, s.gamma.max, tr("gamma max"), problem) ||
       !read_value(dark_min_, true, s.dark_min_ohm, tr("Dark min"), problem) ||
-      !read_value(rms_max_, false, s.max_rms_log_residual, tr("Max RMS"), problem)) {
+      !read_value(rms_max_, false, s.max_rms_log_residual, tr("Max RMS"), problem) ||
+      !read_value(temp_coeff_, false, s.temp_coeff_pct_per_c, tr("Temp. coeff."), problem)) {
     return std::nullopt;
   }
   s.inspection.mode = static_cast<InspectionMode>(mode_->currentData().toInt());
@@ -233,7 +249,8 @@ std::optional<Spec> AcceptanceView::specFromForm(QString* problem) const {
     std::size_t n = 0;
     auto [ptr, ec] = std::from_chars(lot.data(), lot.data() + lot.size(), n);
     if (ec != std::errc() || ptr != lot.data() + lot.size() || n == 0) {
-      if (problem) *problem = tr("Lot size: \"%1\" is not a whole number of units").arg(lot_size_->text());
+      if (problem)
+        *problem = tr("Lot size: \"%1\" is not a whole number of units").arg(lot_size_->text());
       return std::nullopt;
     }
     s.inspection.lot_size = n;
@@ -256,6 +273,8 @@ void AcceptanceView::setLotLoaded(bool loaded) {
   lot_loaded_ = loaded;
   summary_button_->setEnabled(loaded && summaryAvailable());
 }
+
+void AcceptanceView::setFitHandling(const QString& html) { fit_handling_->setText(html); }
 
 void AcceptanceView::setAnalysis(std::shared_ptr<const LotAnalysis> analysis,
                                  std::size_t units_in_lot, bool spec_loaded) {
@@ -312,7 +331,8 @@ void AcceptanceView::setAnalysis(std::shared_ptr<const LotAnalysis> analysis,
   }
   const Acceptance& a = *analysis->acceptance;
   std::size_t conforming = 0, nonconforming = 0;
-  for (const auto& v : *analysis->verdicts) (v.verdict == Verdict::conforming ? conforming : nonconforming)++;
+  for (const auto& v : *analysis->verdicts)
+    (v.verdict == Verdict::conforming ? conforming : nonconforming)++;
   const QString word = a.disposition == Disposition::accept   ? tr("ACCEPT")
                        : a.disposition == Disposition::reject ? tr("REJECT")
                                                               : tr("UNDECIDED");
@@ -341,8 +361,8 @@ void AcceptanceView::setAnalysis(std::shared_ptr<const LotAnalysis> analysis,
     if (++listed > kListed) break;
     QStringList reasons;
     for (const auto& reason : v.reasons) reasons << QString::fromStdString(reason.text);
-    auto* item = new QListWidgetItem(QStringLiteral("%1 — %2").arg(QString::fromStdString(v.id),
-                                                                  reasons.join(QStringLiteral("; "))));
+    auto* item = new QListWidgetItem(QStringLiteral("%1 — %2").arg(
+        QString::fromStdString(v.id), reasons.join(QStringLiteral("; "))));
     item->setData(Qt::UserRole, QString::fromStdString(v.id));
     rejected_->addItem(item);
   }

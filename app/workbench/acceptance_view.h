@@ -4,7 +4,6 @@
 #pragma once
 
 #include <QWidget>
-
 #include <optional>
 
 #include "session.h"
@@ -32,6 +31,9 @@ class AcceptanceView : public QWidget {
   void setAnalysis(std::shared_ptr<const LotAnalysis> analysis, std::size_t units_in_lot,
                    bool spec_loaded);
   void setLotLoaded(bool loaded);
+  // How the lot was fitted: model, over-range readings, bench profile, temperature (HTML).
+  void setFitHandling(const QString& html);
+  QLabel* fitHandlingLabel() const { return fit_handling_; }
 
   QLabel* dispositionLabel() const { return disposition_; }
   QPushButton* summaryButton() const { return summary_button_; }
@@ -52,6 +54,7 @@ class AcceptanceView : public QWidget {
   QLineEdit* gamma_max_ = nullptr;
   QLineEdit* dark_min_ = nullptr;
   QLineEdit* rms_max_ = nullptr;
+  QLineEdit* temp_coeff_ = nullptr;
   QComboBox* mode_ = nullptr;
   QComboBox* level_ = nullptr;
   QComboBox* aql_ = nullptr;
@@ -64,6 +67,7 @@ class AcceptanceView : public QWidget {
   QLabel* plan_ = nullptr;
   QLabel* counts_ = nullptr;
   QLabel* statistics_ = nullptr;
+  QLabel* fit_handling_ = nullptr;
   QListWidget* rejected_ = nullptr;
   QPushButton* summary_button_ = nullptr;
   bool lot_loaded_ = false;

@@ -1,10 +1,9 @@
 #include "curve_series.h"
 
 #include <algorithm>
-#include <cmath>
-
 #include <boost/math/distributions/normal.hpp>
 #include <boost/math/distributions/students_t.hpp>
+#include <cmath>
 
 namespace photolot::workbench {
 namespace {
@@ -27,9 +26,9 @@ std::vector<UnitSeries> build_curve_series(const Lot& lot, const LotFit* fit,
   for (int index : units) {
     if (index < 0 || index >= static_cast<int>(lot.units.size())) continue;
     const Unit& unit = lot.units[static_cast<std::size_t>(index)];
-    const UnitFit* unit_fit =
-        fit && fit->units.size() == lot.units.size() ? &fit->units[static_cast<std::size_t>(index)]
-                                                     : nullptr;
+    const UnitFit* unit_fit = fit && fit->units.size() == lot.units.size()
+                                  ? &fit->units[static_cast<std::size_t>(index)]
+                                  : nullptr;
     UnitSeries s;
     s.unit = index;
     s.id = QString::fromStdString(unit.id);
@@ -72,7 +71,9 @@ std::vector<UnitSeries> build_curve_series(const Lot& lot, const LotFit* fit,
 
     if (unit_fit && unit_fit->ok() && lux_max > 0) {
       const Curve& curve = unit_fit->curve;
-      const bool straight = curve.model == ModelKind::power_law && !curve.temperature_handled;
+      // At 25 degC (where the view draws) the temperature term is nil: a power law is straight.
+      const bool straight = curve.model == ModelKind::power_law;
+      s.straight = straight;
       const bool band = options.bands && !curve.covariance.empty();
       const int samples = straight && !band ? 2 : std::max(2, options.line_samples);
       const double t = band ? band_quantile(options.confidence, unit_fit->dof) : 0;
@@ -92,6 +93,13 @@ std::vector<UnitSeries> build_curve_series(const Lot& lot, const LotFit* fit,
     out.push_back(std::move(s));
   }
   return out;
+}
+
+std::vector<UnitSeries> build_all_curve_series(const Lot& lot, const LotFit* fit,
+                                               const CurveSeriesOptions& options) {
+  std::vector<int> all(lot.units.size());
+  for (std::size_t i = 0; i < all.size(); ++i) all[i] = static_cast<int>(i);
+  return build_curve_series(lot, fit, all, options);
 }
 
 }  // namespace photolot::workbench

@@ -4,7 +4,6 @@
 #pragma once
 
 #include <QString>
-
 #include <vector>
 
 #include "photolot/fit_result.h"
@@ -23,6 +22,9 @@ struct UnitSeries {
   // two-sided confidence band for the curve (empty when no covariance or not asked for).
   std::vector<double> line_lux, line_ohm;
   std::vector<double> band_low_ohm, band_high_ohm;  // at line_lux
+  // True when the fitted curve is a straight line on log-log axes (a power law at 25 degC):
+  // its first and last samples then draw it exactly, whatever line_lux holds.
+  bool straight = false;
   // Residuals ln R_measured - ln R_fitted at the readings the fit used.
   std::vector<double> residual_lux, residual_ln;
   std::vector<double> outlier_residual_lux, outlier_residual_ln;
@@ -37,5 +39,9 @@ struct CurveSeriesOptions {
 std::vector<UnitSeries> build_curve_series(const Lot& lot, const LotFit* fit,
                                            const std::vector<int>& units,
                                            const CurveSeriesOptions& options = {});
+// Every unit of the lot, in lot order (the session builds these on its worker with the fit, so
+// the curves view only picks from them).
+std::vector<UnitSeries> build_all_curve_series(const Lot& lot, const LotFit* fit,
+                                               const CurveSeriesOptions& options = {});
 
 }  // namespace photolot::workbench

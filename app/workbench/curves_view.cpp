@@ -1,14 +1,13 @@
 #include "curves_view.h"
 
+#include <qcustomplot.h>
+
 #include <QLabel>
 #include <QMouseEvent>
 #include <QToolTip>
 #include <QVBoxLayout>
-
 #include <cmath>
 #include <limits>
-
-#include <qcustomplot.h>
 
 #include "display_format.h"
 #include "plot_style.h"
@@ -16,7 +15,9 @@
 namespace photolot::workbench {
 namespace {
 
-QVector<double> to_qvector(const std::vector<double>& v) { return QVector<double>(v.begin(), v.end()); }
+QVector<double> to_qvector(const std::vector<double>& v) {
+  return QVector<double>(v.begin(), v.end());
+}
 
 void set_log_axis(QCPAxis* axis) {
   axis->setScaleType(QCPAxis::stLogarithmic);
@@ -92,9 +93,11 @@ CurvesView::CurvesView(QWidget* parent) : QWidget(parent) {
   rebuild();
 }
 
-void CurvesView::setLot(const Lot* lot, const LotFit* fit) {
+void CurvesView::setLot(const Lot* lot, const LotFit* fit,
+                        std::shared_ptr<const std::vector<UnitSeries>> series) {
   lot_ = lot;
   fit_ = fit;
+  all_series_ = lot && series && series->size() == lot->units.size() ? std::move(series) : nullptr;
   units_.clear();
   rebuild();
 }
@@ -116,11 +119,20 @@ void CurvesView::rebuild() {
   plot_->clearItems();
   hover_points_.clear();
   series_.clear();
+  own_series_.clear();
   detailed_ = units_.size() <= static_cast<std::size_t>(kDetailedUnits);
-  if (lot_) {
+  if (lot_ && all_series_) {
+    series_.reserve(units_.size());
+    for (int u : units_) {
+      if (u >= 0 && u < static_cast<int>(all_series_->size())) {
+        series_.push_back(&(*all_series_)[static_cast<std::size_t>(u)]);
+      }
+    }
+  } else if (lot_) {
     CurveSeriesOptions options;
     options.bands = detailed_;
-    series_ = build_curve_series(*lot_, fit_, units_, options);
+    own_series_ = build_curve_series(*lot_, fit_, units_, options);
+    for (const UnitSeries& s : own_series_) series_.push_back(&s);
   }
 
   if (!lot_) {
@@ -128,10 +140,11 @@ void CurvesView::rebuild() {
   } else if (series_.empty()) {
     caption_->setText(tr("Select units in the table to plot their readings and fitted curves."));
   } else if (detailed_) {
-    caption_->setText(tr("%n unit(s). ● reading  ✕ outlier (down-weighted)  △ over range "
-                         "(the true value lies above)  shaded: 95 % band of the fitted curve. "
-                         "Drag to pan, wheel to zoom, hover for values.",
-                         "", static_cast<int>(series_.size())));
+    caption_->setText(
+        tr("%n unit(s). ● reading  ✕ outlier (down-weighted)  △ over range "
+           "(the true value lies above)  shaded: 95 % band of the fitted curve. "
+           "Drag to pan, wheel to zoom, hover for values.",
+           "", static_cast<int>(series_.size())));
   } else {
     caption_->setText(tr("%n units drawn together (bands and legend from %1 units down). "
                          "● reading  ✕ outlier  △ over range.",
@@ -146,12 +159,14 @@ void CurvesView::rebuild() {
 
   auto note_points = [this](const std::vector<double>& lux, const std::vector<double>& v, int unit,
                             char kind) {
-    for (std::size_t i = 0; i < lux.size(); ++i) hover_points_.push_back({lux[i], v[i], unit, kind});
+    for (std::size_t i = 0; i < lux.size(); ++i)
+      hover_points_.push_back({lux[i], v[i], unit, kind});
   };
 
   if (detailed_) {
     int colour_index = 0;
-    for (const UnitSeries& s : series_) {
+    for (const UnitSeries* sp : series_) {
+      const UnitSeries& s = *sp;
       const QColor colour = unit_colour(colour_index++);
       if (!s.band_low_ohm.empty()) {
         QCPGraph* low = plot_->addGraph(x, y);
@@ -175,9 +190,9 @@ void CurvesView::rebuild() {
         line->setPen(QPen(colour, 1.8));
         line->setData(to_qvector(s.line_lux), to_qvector(s.line_ohm), true);
       }
-      QCPGraph* readings = add_scatter(plot_, curve_rect_, s.id + tr(" readings"),
-                                       reading_style(colour), s.normal_lux, s.normal_ohm,
-                                       s.line_lux.empty());
+      QCPGraph* readings =
+          add_scatter(plot_, curve_rect_, s.id + tr(" readings"), reading_style(colour),
+                      s.normal_lux, s.normal_ohm, s.line_lux.empty());
       if (s.line_lux.empty()) readings->setName(s.id + tr(" (not fitted)"));
       add_scatter(plot_, curve_rect_, s.id + tr(" outliers"), outlier_style(), s.outlier_lux,
                   s.outlier_ohm, false);
@@ -194,7 +209,8 @@ void CurvesView::rebuild() {
     std::vector<double> nl, no, ol, oo, cl, co, rl, rr, orl, orr;
     QVector<double> line_t, line_x, line_y;
     double t = 0;
-    for (const UnitSeries& s : series_) {
+    for (const UnitSeries* sp : series_) {
+      const UnitSeries& s = *sp;
       nl.insert(nl.end(), s.normal_lux.begin(), s.normal_lux.end());
       no.insert(no.end(), s.normal_ohm.begin(), s.normal_ohm.end());
       ol.insert(ol.end(), s.outlier_lux.begin(), s.outlier_lux.end());
@@ -205,7 +221,10 @@ void CurvesView::rebuild() {
       rr.insert(rr.end(), s.residual_ln.begin(), s.residual_ln.end());
       orl.insert(orl.end(), s.outlier_residual_lux.begin(), s.outlier_residual_lux.end());
       orr.insert(orr.end(), s.outlier_residual_ln.begin(), s.outlier_residual_ln.end());
-      for (std::size_t i = 0; i < s.line_lux.size(); ++i) {
+      // A straight line needs its two ends only; a curved model all its samples.
+      const std::size_t n = s.line_lux.size();
+      for (std::size_t i = 0; i < n; ++i) {
+        if (s.straight && i != 0 && i + 1 != n) continue;
         line_t << t++;
         line_x << s.line_lux[i];
         line_y << s.line_ohm[i];
@@ -233,13 +252,15 @@ void CurvesView::rebuild() {
     add_scatter(plot_, residual_rect_, tr("outlier residuals"), outlier_style(6), orl, orr, false);
   }
   if (detailed_) {
-    for (const UnitSeries& s : series_) {
+    for (const UnitSeries* sp : series_) {
+      const UnitSeries& s = *sp;
       note_points(s.normal_lux, s.normal_ohm, s.unit, 'r');
       note_points(s.outlier_lux, s.outlier_ohm, s.unit, 'o');
       note_points(s.censored_lux, s.censored_ohm, s.unit, 'c');
     }
   }
-  for (const UnitSeries& s : series_) {
+  for (const UnitSeries* sp : series_) {
+    const UnitSeries& s = *sp;
     note_points(s.residual_lux, s.residual_ln, s.unit, 'e');
     note_points(s.outlier_residual_lux, s.outlier_residual_ln, s.unit, 'e');
   }
@@ -279,8 +300,8 @@ void CurvesView::rebuild() {
     label->position->setAxes(x, y);
     label->position->setCoords(kReferenceLux, spec_window_->second);
     label->setPositionAlignment(Qt::AlignLeft | Qt::AlignBottom);
-    label->setText(tr("spec R10 %1 – %2").arg(format_ohm(spec_window_->first),
-                                              format_ohm(spec_window_->second)));
+    label->setText(tr("spec R10 %1 – %2")
+                       .arg(format_ohm(spec_window_->first), format_ohm(spec_window_->second)));
     label->setColor(kSpecColour.darker(130));
   }
 
@@ -298,8 +319,14 @@ void CurvesView::rebuild() {
       const QCPRange v = p->getValueRange(vok, rect == curve_rect_ ? QCP::sdPositive : QCP::sdBoth);
       if (!vok) continue;
       if (rect == curve_rect_) {
-        if (!found) { xr = k; yr = v; found = true; }
-        else { xr.expand(k); yr.expand(v); }
+        if (!found) {
+          xr = k;
+          yr = v;
+          found = true;
+        } else {
+          xr.expand(k);
+          yr.expand(v);
+        }
       } else {
         rr.expand(v);
       }
@@ -337,9 +364,12 @@ QString CurvesView::hoverTextAt(const QPoint& pos) const {
   const QString id = QString::fromStdString(lot_->units[static_cast<std::size_t>(best->unit)].id);
   const QString lux = format_number(best->lux, 3);
   switch (best->kind) {
-    case 'r': return tr("%1: %2 lx, %3").arg(id, lux, format_ohm(best->value));
-    case 'o': return tr("%1: %2 lx, %3 (outlier)").arg(id, lux, format_ohm(best->value));
-    case 'c': return tr("%1: %2 lx, over range (> %3)").arg(id, lux, format_ohm(best->value));
+    case 'r':
+      return tr("%1: %2 lx, %3").arg(id, lux, format_ohm(best->value));
+    case 'o':
+      return tr("%1: %2 lx, %3 (outlier)").arg(id, lux, format_ohm(best->value));
+    case 'c':
+      return tr("%1: %2 lx, over range (> %3)").arg(id, lux, format_ohm(best->value));
     default:
       return tr("%1: %2 lx, residual %3 in ln R (%4 %)")
           .arg(id, lux, format_number(best->value, 2),

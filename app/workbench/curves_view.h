@@ -5,7 +5,7 @@
 #pragma once
 
 #include <QWidget>
-
+#include <memory>
 #include <optional>
 #include <utility>
 #include <vector>
@@ -25,13 +25,18 @@ class CurvesView : public QWidget {
 
   explicit CurvesView(QWidget* parent = nullptr);
 
-  void setLot(const Lot* lot, const LotFit* fit);  // not owned; call again when they change
-  void setUnits(const std::vector<int>& units);     // indices into Lot::units
+  // Not owned; call again when they change. `series`, when given, holds every unit's curves
+  // in lot order (the session builds them on its worker); without it the view builds the
+  // selected units' own.
+  void setLot(const Lot* lot, const LotFit* fit,
+              std::shared_ptr<const std::vector<UnitSeries>> series = nullptr);
+  void setUnits(const std::vector<int>& units);  // indices into Lot::units
   // The spec's R10 window (min, max ohm), drawn at 10 lx; nullopt hides it.
   void setSpecWindow(std::optional<std::pair<double, double>> r10_window_ohm);
 
   QCustomPlot* plot() const { return plot_; }
-  const std::vector<UnitSeries>& series() const { return series_; }
+  // What is drawn, one entry per selected unit.
+  const std::vector<const UnitSeries*>& series() const { return series_; }
   bool detailed() const { return detailed_; }
   QString exportTo(const QString& path);
 
@@ -51,7 +56,9 @@ class CurvesView : public QWidget {
   const LotFit* fit_ = nullptr;
   std::vector<int> units_;
   std::optional<std::pair<double, double>> spec_window_;
-  std::vector<UnitSeries> series_;
+  std::shared_ptr<const std::vector<UnitSeries>> all_series_;
+  std::vector<UnitSeries> own_series_;  // built here when there is no all_series_
+  std::vector<const UnitSeries*> series_;
   std::vector<HoverPoint> hover_points_;
   bool detailed_ = true;
 

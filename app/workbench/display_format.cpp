@@ -1,8 +1,8 @@
 #include "display_format.h"
 
-#include <cmath>
-
 #include <fmt/format.h>
+
+#include <cmath>
 
 namespace photolot::workbench {
 namespace {
@@ -28,6 +28,22 @@ QString format_ohm(double ohm) {
   for (const auto& p : kPrefixes) {
     if (std::fabs(ohm) >= p.scale * 0.9995 || p.scale == 1) {
       return QString::fromStdString(fmt::format("{} {}", sig(ohm / p.scale, 3), p.name));
+    }
+  }
+  return kDash;
+}
+
+QString format_siemens(double siemens) {
+  if (!std::isfinite(siemens)) return kDash;
+  struct Prefix {
+    double scale;
+    const char* name;
+  };
+  static constexpr Prefix kPrefixes[] = {
+      {1, "S"}, {1e-3, "mS"}, {1e-6, "µS"}, {1e-9, "nS"}, {1e-12, "pS"}};
+  for (const auto& p : kPrefixes) {
+    if (std::fabs(siemens) >= p.scale * 0.9995 || p.scale == 1e-12) {
+      return QString::fromStdString(fmt::format("{} {}", sig(siemens / p.scale, 3), p.name));
     }
   }
   return kDash;

@@ -3,13 +3,14 @@
 #pragma once
 
 #include <QString>
-
 #include <array>
 
 namespace photolot::workbench {
 
 // Resistance with an SI prefix and 3 significant digits: "20.3 kΩ", "1.50 MΩ"; "—" for NaN.
 QString format_ohm(double ohm);
+// Conductance with an SI prefix and 3 significant digits: "4.20 nS", "1.05 µS"; "—" for NaN.
+QString format_siemens(double siemens);
 // A plain number to `digits` significant digits; "—" for NaN.
 QString format_number(double value, int digits = 3);
 // "[a, b]" of two formatted values (ohm when is_ohm).

@@ -1,16 +1,16 @@
 #include "engine.h"
 
+#include <fmt/format.h>
+
 #include <QCryptographicHash>
 #include <QFile>
-
-#include <fmt/format.h>
 
 namespace photolot::workbench {
 
 std::string sha256_hex(const std::string& bytes) {
-  const QByteArray digest = QCryptographicHash::hash(
-      QByteArrayView(bytes.data(), static_cast<qsizetype>(bytes.size())),
-      QCryptographicHash::Sha256);
+  const QByteArray digest =
+      QCryptographicHash::hash(QByteArrayView(bytes.data(), static_cast<qsizetype>(bytes.size())),
+                               QCryptographicHash::Sha256);
   return digest.toHex().toStdString();
 }
 
@@ -39,9 +39,12 @@ FileLayout run_detect(const SourceFile& source, const ImportOptions& options,
   return detect_layout(source.path, source.content, options, preview_rows);
 }
 
-LotFit run_fit(const Lot& lot, const fitting::FitOptions& options, const ProgressFn& progress,
+LotFit run_fit(const Lot& lot, const fitting::FitOptions& options,
+               const fitting::ExtendedFitOptions& model, const ProgressFn& progress,
                std::stop_token stop) {
-  return fitting::fit_lot(lot, options, progress, stop);
+  fitting::FitOptions fit = options;
+  fit.over_range_bounds = model.censored_terms;
+  return fitting::fit_lot_extended(lot, fit, model, progress, stop);
 }
 
 }  // namespace photolot::workbench

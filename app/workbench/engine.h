@@ -8,6 +8,7 @@
 
 #include "photolot/fit_result.h"
 #include "photolot/fitting/fit.h"
+#include "photolot/fitting/models.h"
 #include "photolot/import.h"
 #include "photolot/progress.h"
 
@@ -30,7 +31,11 @@ std::string sha256_hex(const std::string& bytes);
 ImportResult run_import(const std::vector<SourceFile>& sources, const ImportOptions& options);
 FileLayout run_detect(const SourceFile& source, const ImportOptions& options,
                       std::size_t preview_rows = 20);
-LotFit run_fit(const Lot& lot, const fitting::FitOptions& options, const ProgressFn& progress,
+// The fit the command line's analyze runs (fitting/models.h): the curve model, over-range
+// readings as one-sided bounds (when model.censored_terms), the bench profile's weights and
+// the temperature handling, so both faces show the same numbers for the same choices.
+LotFit run_fit(const Lot& lot, const fitting::FitOptions& options,
+               const fitting::ExtendedFitOptions& model, const ProgressFn& progress,
                std::stop_token stop);
 
 }  // namespace photolot::workbench

@@ -1,6 +1,6 @@
 #include "import_dialog.h"
 
-#include "diagnostics_list.h"
+#include <fmt/format.h>
 
 #include <QComboBox>
 #include <QDialogButtonBox>
@@ -18,23 +18,28 @@
 #include <QTreeWidget>
 #include <QVBoxLayout>
 #include <QtConcurrent/QtConcurrentRun>
-
 #include <charconv>
 #include <cmath>
 
-#include <fmt/format.h>
+#include "diagnostics_list.h"
 
 namespace photolot::workbench {
 namespace {
 
 QString char_name(char c) {
   switch (c) {
-    case ',': return QObject::tr("comma");
-    case ';': return QObject::tr("semicolon");
-    case '\t': return QObject::tr("tab");
-    case '.': return QObject::tr("point");
-    case 0: return QObject::tr("detect");
-    default: return QString(QLatin1Char(c));
+    case ',':
+      return QObject::tr("comma");
+    case ';':
+      return QObject::tr("semicolon");
+    case '\t':
+      return QObject::tr("tab");
+    case '.':
+      return QObject::tr("point");
+    case 0:
+      return QObject::tr("detect");
+    default:
+      return QString(QLatin1Char(c));
   }
 }
 
@@ -51,11 +56,16 @@ void select_data(QComboBox* box, const QString& data) {
 
 QString role_name(ColumnRole role) {
   switch (role) {
-    case ColumnRole::unit_id: return QObject::tr("unit id");
-    case ColumnRole::lux: return QObject::tr("illuminance");
-    case ColumnRole::ohm: return QObject::tr("resistance");
-    case ColumnRole::temp_c: return QObject::tr("temperature");
-    case ColumnRole::ignored: return QObject::tr("not used");
+    case ColumnRole::unit_id:
+      return QObject::tr("unit id");
+    case ColumnRole::lux:
+      return QObject::tr("illuminance");
+    case ColumnRole::ohm:
+      return QObject::tr("resistance");
+    case ColumnRole::temp_c:
+      return QObject::tr("temperature");
+    case ColumnRole::ignored:
+      return QObject::tr("not used");
   }
   return {};
 }
@@ -78,16 +88,18 @@ ImportDialog::ImportDialog(std::vector<SourceFile> sources, const ImportOptions&
   auto* save_profile = new QPushButton(tr("Save as profile…"), this);
   auto* delete_profile = new QPushButton(tr("Delete profile"), this);
 
-  delimiter_ = choice_box(this, {{tr("detect"), ""}, {tr("comma  ,"), ","},
-                                 {tr("semicolon  ;"), ";"}, {tr("tab"), "\t"}});
+  delimiter_ = choice_box(
+      this,
+      {{tr("detect"), ""}, {tr("comma  ,"), ","}, {tr("semicolon  ;"), ";"}, {tr("tab"), "\t"}});
   decimal_ = choice_box(this, {{tr("detect"), ""}, {tr("point  ."), "."}, {tr("comma  ,"), ","}});
   id_column_ = new QComboBox(this);
   lux_column_ = new QComboBox(this);
   ohm_column_ = new QComboBox(this);
   temp_column_ = new QComboBox(this);
-  lux_unit_ = choice_box(this, {{tr("detect"), ""}, {tr("lx"), "lx"}, {tr("fc (footcandle)"), "fc"}});
-  ohm_unit_ = choice_box(this, {{tr("detect"), ""}, {tr("Ω"), "ohm"}, {tr("kΩ"), "kohm"},
-                                {tr("MΩ"), "Mohm"}});
+  lux_unit_ =
+      choice_box(this, {{tr("detect"), ""}, {tr("lx"), "lx"}, {tr("fc (footcandle)"), "fc"}});
+  ohm_unit_ = choice_box(
+      this, {{tr("detect"), ""}, {tr("Ω"), "ohm"}, {tr("kΩ"), "kohm"}, {tr("MΩ"), "Mohm"}});
   temp_unit_ = choice_box(this, {{tr("detect"), ""}, {tr("°C"), "degC"}, {tr("K"), "K"}});
   overload_ = new QLineEdit(this);
   overload_->setPlaceholderText(tr("none (ohm, e.g. 20000000)"));
@@ -127,7 +139,8 @@ ImportDialog::ImportDialog(std::vector<SourceFile> sources, const ImportOptions&
   summary_->setWordWrap(true);
   diagnostics_ = new QTreeWidget(this);
   diagnostics_->setObjectName(QStringLiteral("importDiagnostics"));
-  diagnostics_->setHeaderLabels({tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
+  diagnostics_->setHeaderLabels(
+      {tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
   diagnostics_->setRootIsDecorated(false);
 
   auto* right = new QWidget(this);
@@ -258,15 +271,17 @@ void ImportDialog::refresh() {
       if (c.role == ColumnRole::ignored) continue;
       cols << QStringLiteral("%1 → %2%3")
                   .arg(QString::fromStdString(c.header), role_name(c.role),
-                       c.unit.empty() ? QString()
-                                      : QStringLiteral(" (%1)").arg(QString::fromStdString(c.unit)));
+                       c.unit.empty()
+                           ? QString()
+                           : QStringLiteral(" (%1)").arg(QString::fromStdString(c.unit)));
     }
-    detected_->setText(tr("<b>Read as:</b> delimiter %1, decimal mark %2, header on line %3%4.<br>"
-                          "<b>Columns:</b> %5")
-                           .arg(char_name(layout_.delimiter), char_name(layout_.decimal))
-                           .arg(layout_.header_line)
-                           .arg(layout_.had_bom ? tr(", byte-order mark") : QString())
-                           .arg(cols.isEmpty() ? tr("none recognised") : cols.join(QStringLiteral(", "))));
+    detected_->setText(
+        tr("<b>Read as:</b> delimiter %1, decimal mark %2, header on line %3%4.<br>"
+           "<b>Columns:</b> %5")
+            .arg(char_name(layout_.delimiter), char_name(layout_.decimal))
+            .arg(layout_.header_line)
+            .arg(layout_.had_bom ? tr(", byte-order mark") : QString())
+            .arg(cols.isEmpty() ? tr("none recognised") : cols.join(QStringLiteral(", "))));
   }
 
   preview_->clear();
@@ -275,8 +290,9 @@ void ImportDialog::refresh() {
   for (const auto& c : layout_.columns) {
     headers << QStringLiteral("%1\n%2%3")
                    .arg(QString::fromStdString(c.header), role_name(c.role),
-                        c.unit.empty() ? QString()
-                                       : QStringLiteral(", %1").arg(QString::fromStdString(c.unit)));
+                        c.unit.empty()
+                            ? QString()
+                            : QStringLiteral(", %1").arg(QString::fromStdString(c.unit)));
   }
   preview_->setHorizontalHeaderLabels(headers);
   preview_->setRowCount(static_cast<int>(layout_.preview.size()));
@@ -324,16 +340,26 @@ void ImportDialog::showTrial() {
 
 void ImportDialog::saveProfile() {
   bool ok = false;
-  const QString name = QInputDialog::getText(this, tr("Save import profile"),
-                                             tr("Profile name:"), QLineEdit::Normal,
-                                             profile_->currentIndex() > 0 ? profile_->currentText()
-                                                                          : QString(),
-                                             &ok)
-                           .trimmed();
+  const QString name =
+      QInputDialog::getText(this, tr("Save import profile"), tr("Profile name:"), QLineEdit::Normal,
+                            profile_->currentIndex() > 0 ? profile_->currentText() : QString(), &ok)
+          .trimmed();
   if (!ok || name.isEmpty()) return;
+  saveProfileAs(name);
+}
+
+void ImportDialog::saveProfileAs(const QString& name) {
   profiles_.save(name, options());
   if (profile_->findText(name) < 0) profile_->addItem(name);
   profile_->setCurrentText(name);
+}
+
+bool ImportDialog::chooseProfile(const QString& name) {
+  const int index = profile_->findText(name);
+  if (index <= 0) return false;
+  profile_->setCurrentIndex(index);
+  applyProfile(index);
+  return true;
 }
 
 void ImportDialog::applyProfile(int index) {

@@ -6,7 +6,6 @@
 
 #include <QDialog>
 #include <QFutureWatcher>
-
 #include <vector>
 
 #include "engine.h"
@@ -36,6 +35,18 @@ class ImportDialog : public QDialog {
   QTableWidget* previewTable() const { return preview_; }
   QTreeWidget* diagnosticsList() const { return diagnostics_; }
   QComboBox* delimiterBox() const { return delimiter_; }
+  QComboBox* decimalBox() const { return decimal_; }
+  QComboBox* luxColumnBox() const { return lux_column_; }
+  QComboBox* ohmColumnBox() const { return ohm_column_; }
+  QComboBox* ohmUnitBox() const { return ohm_unit_; }
+  QComboBox* profileBox() const { return profile_; }
+  QLabel* detectedLabel() const { return detected_; }
+  QLabel* summaryLabel() const { return summary_; }
+  // Saves the current choices as the named profile (what "Save as profile…" does once the
+  // name is typed) and shows it as the chosen profile.
+  void saveProfileAs(const QString& name);
+  // Applies the named saved profile, as choosing it in the list does; false when there is none.
+  bool chooseProfile(const QString& name);
   bool trialRunning() const { return watcher_.isRunning(); }
 
  signals:

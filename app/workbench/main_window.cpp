@@ -1,7 +1,10 @@
 #include "main_window.h"
 
+#include <fmt/format.h>
+
 #include <QAction>
 #include <QApplication>
+#include <QCheckBox>
 #include <QCloseEvent>
 #include <QComboBox>
 #include <QDate>
@@ -33,18 +36,16 @@
 #include <QToolBar>
 #include <QTreeWidget>
 #include <QVBoxLayout>
-
 #include <cmath>
 #include <unordered_map>
 
-#include <fmt/format.h>
-
-#include "curves_view.h"
-#include "diagnostics_list.h"
-#include "help_text.h"
-#include "import_dialog.h"
 #include "acceptance_view.h"
 #include "autosave.h"
+#include "curves_view.h"
+#include "diagnostics_list.h"
+#include "fit_handling.h"
+#include "help_text.h"
+#include "import_dialog.h"
 #include "pairs_view.h"
 #include "photolot/results.h"
 #include "source_check_dialog.h"
@@ -109,8 +110,9 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
   connect(&session_, &AnalysisSession::analysisFinished, this, &MainWindow::onAnalysisFinished);
   connect(&session_, &AnalysisSession::pairingFinished, this, &MainWindow::onPairingFinished);
   connect(&session_, &AnalysisSession::cancelled, this, [this] {
-    status_text_->setText(tr("Stopped. The results shown are from the last finished run; "
-                             "Analysis ▸ Refit runs it again."));
+    showResult(
+        tr("Stopped. The results shown are from the last finished run; "
+           "Analysis ▸ Refit runs it again."));
   });
   connect(&session_, &AnalysisSession::inputsChanged, this, [this] {
     if (!session_.sources().empty()) setModified(true);
@@ -120,6 +122,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
 }
 
 MainWindow::~MainWindow() = default;
+
+QString MainWindow::statusText() const { return status_text_->text(); }
 
 void MainWindow::buildLayout() {
   // Left: the unit table with its filters.
@@ -138,8 +142,8 @@ void MainWindow::buildLayout() {
   status_filter_ = new QComboBox(left);
   status_filter_->addItems({tr("All fits"), tr("Fitted"), tr("Not fitted"), tr("Flagged")});
   verdict_filter_ = new QComboBox(left);
-  verdict_filter_->addItems({tr("All verdicts"), tr("Conforming"), tr("Nonconforming"),
-                             tr("No verdict")});
+  verdict_filter_->addItems(
+      {tr("All verdicts"), tr("Conforming"), tr("Nonconforming"), tr("No verdict")});
   auto* filters = new QHBoxLayout;
   filters->addWidget(filter_text_, 1);
   filters->addWidget(status_filter_);
@@ -190,7 +194,8 @@ void MainWindow::buildLayout() {
   pairs_ = new PairsView(tabs_);
   import_log_ = new QTreeWidget(tabs_);
   import_log_->setObjectName(QStringLiteral("importLog"));
-  import_log_->setHeaderLabels({tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
+  import_log_->setHeaderLabels(
+      {tr("File"), tr("Line"), tr("Column"), tr("Severity"), tr("Message")});
   import_log_->setRootIsDecorated(false);
   tabs_->addTab(curves_, tr("Curves"));
   tabs_->addTab(spread_, tr("Spread"));
@@ -219,6 +224,7 @@ void MainWindow::buildLayout() {
       return;
     }
     session_.setPairOptions(options);
+    session_.setPairAllFitted(pairs_->includeAllFitted());
     session_.setPairingWanted(true);
     pairs_->setPairing(nullptr, true);
     session_.run();
@@ -227,6 +233,12 @@ void MainWindow::buildLayout() {
     selectUnits({static_cast<int>(a), static_cast<int>(b)});
   });
   connect(pairs_, &PairsView::exportRequested, this, &MainWindow::savePickList);
+  connect(pairs_, &PairsView::includeAllFittedChanged, this, [this] {
+    session_.setPairAllFitted(pairs_->includeAllFitted());
+    if (!session_.pairingWanted()) return;
+    pairs_->setPairing(nullptr, true);
+    session_.run();
+  });
 
   splitter_ = new QSplitter(this);
   splitter_->setObjectName(QStringLiteral("mainSplitter"));
@@ -276,7 +288,8 @@ void MainWindow::buildActions() {
   quit->setMenuRole(QAction::QuitRole);
 
   QMenu* edit = menuBar()->addMenu(tr("&Edit"));
-  auto* select_all = edit->addAction(tr("Select &All Units"), this, [this] { table_->selectAll(); });
+  auto* select_all =
+      edit->addAction(tr("Select &All Units"), this, [this] { table_->selectAll(); });
   select_all->setShortcut(QKeySequence::SelectAll);
   auto* find = edit->addAction(tr("&Find Unit"), this, [this] {
     filter_text_->setFocus();
@@ -323,7 +336,7 @@ void MainWindow::restoreSettings() {
   if (!restoreGeometry(settings.value("window/geometry").toByteArray())) resize(1360, 840);
   restoreState(settings.value("window/state").toByteArray());
   splitter_->restoreState(settings.value("window/splitter").toByteArray());
-  table_->horizontalHeader()->restoreState(settings.value("window/unitTable").toByteArray());
+  table_->horizontalHeader()->restoreState(settings.value("window/unitTableV2").toByteArray());
   if (splitter_->sizes().value(0) == 0) splitter_->setSizes({560, 800});
 }
 
@@ -388,7 +401,8 @@ void MainWindow::openLogs(const QStringList& paths, bool ask) {
     options = dialog.options();
   }
   for (const auto& s : sources) rememberRecent(QString::fromStdString(s.path));
-  QSettings().setValue("folders/logs", QFileInfo(QString::fromStdString(sources[0].path)).absolutePath());
+  QSettings().setValue("folders/logs",
+                       QFileInfo(QString::fromStdString(sources[0].path)).absolutePath());
   workspace_path_.clear();
   pending_selection_.clear();
   session_.setSources(std::move(sources));
@@ -437,7 +451,7 @@ bool MainWindow::openWorkspaceDocument(const QString& path, Workspace workspace,
   for (const auto& r : rows) {
     if (!r.usable()) {
       unreadable << QStringLiteral("%1 (%2)").arg(QString::fromStdString(r.source.path),
-                                                   state_text(r));
+                                                  state_text(r));
     }
   }
   bool accepted = false;
@@ -488,6 +502,8 @@ bool MainWindow::openWorkspaceDocument(const QString& path, Workspace workspace,
   session_.setSources(std::move(sources));
   session_.setImportOptions(workspace.import_options);
   session_.setFitOptions(workspace.fit_options);
+  session_.setModelOptions(workspace.model.model);
+  bench_profile_name_ = workspace.model.bench_profile_name;
   std::optional<Spec> spec;
   spec_toml_.clear();
   if (workspace.spec.is_object() && workspace.spec.contains("toml")) {
@@ -563,11 +579,11 @@ bool MainWindow::offerRecovery() {
     return false;
   }
   const QByteArray text = file.readAll();
-  const QString folder = o.workspace_path.isEmpty() ? Autosave::folder()
-                                                    : QFileInfo(o.workspace_path).absolutePath();
+  const QString folder =
+      o.workspace_path.isEmpty() ? Autosave::folder() : QFileInfo(o.workspace_path).absolutePath();
   Workspace workspace;
-  if (auto error = workspace_from_text(std::string_view(text.constData(), text.size()), folder,
-                                       workspace)) {
+  if (auto error =
+          workspace_from_text(std::string_view(text.constData(), text.size()), folder, workspace)) {
     tellUser(QMessageBox::Critical, tr("Recover unsaved work"),
              tr("The recovery copy '%1' does not read (it is kept): %2")
                  .arg(o.path, QString::fromStdString(*error)));
@@ -587,10 +603,12 @@ bool MainWindow::offerRecovery() {
 Workspace MainWindow::currentWorkspace() const {
   Workspace w;
   for (const auto& s : session_.sources()) {
-    w.sources.push_back({s.path, s.sha256_hex, static_cast<std::uint64_t>(s.content.size())});
+    w.sources.push_back(
+        {s.path, s.sha256_hex, static_cast<std::uint64_t>(s.content.size()), {}, false});
   }
   w.import_options = session_.importOptions();
   w.fit_options = session_.fitOptions();
+  w.model = {session_.modelOptions(), bench_profile_name_};
   if (const Lot* lot = session_.lot()) {
     for (int u : selectedUnits()) w.view.selected_units.push_back(lot->units[u].id);
   } else {
@@ -606,9 +624,11 @@ Workspace MainWindow::currentWorkspace() const {
     results::ResultsDocument doc = results::make_document(imported->lot, *fit);
     doc.with_residuals = true;  // the curves and residual plots come back without a refit
     if (const auto analysis = session_.analysis()) {
-      doc.sections["statistics"] = results::Json::parse(lot_statistics_json(analysis->statistics).dump());
+      doc.sections["statistics"] =
+          results::Json::parse(lot_statistics_json(analysis->statistics).dump());
       if (analysis->acceptance) {
-        doc.sections["acceptance"] = results::Json::parse(acceptance_json(*analysis->acceptance).dump());
+        doc.sections["acceptance"] =
+            results::Json::parse(acceptance_json(*analysis->acceptance).dump());
       }
     }
     if (const auto pairing = session_.pairing()) {
@@ -640,7 +660,8 @@ bool MainWindow::save() {
 }
 
 bool MainWindow::saveAs() {
-  const QString folder = QSettings().value("folders/workspace", QSettings().value("folders/logs")).toString();
+  const QString folder =
+      QSettings().value("folders/workspace", QSettings().value("folders/logs")).toString();
   QString path = QFileDialog::getSaveFileName(this, tr("Save workspace"), folder,
                                               tr("photolot workspace (*.photolot)"));
   if (path.isEmpty()) return false;
@@ -708,6 +729,64 @@ void MainWindow::editFitOptions() {
   confidence->setDecimals(1);
   confidence->setSuffix(tr(" %"));
   confidence->setValue(current.confidence * 100);
+  const fitting::ExtendedFitOptions current_model = session_.modelOptions();
+  auto* model = new QComboBox(&dialog);
+  model->setObjectName(QStringLiteral("fitModel"));
+  model->addItem(tr("Power law"), static_cast<int>(fitting::ModelChoice::power_law));
+  model->addItem(tr("Dark conductance in parallel"),
+                 static_cast<int>(fitting::ModelChoice::dark_conductance));
+  model->addItem(tr("Choose per unit (lower AICc)"),
+                 static_cast<int>(fitting::ModelChoice::choose));
+  model->setCurrentIndex(model->findData(static_cast<int>(current_model.model)));
+  auto* temperature = new QComboBox(&dialog);
+  temperature->addItem(tr("Fit where identifiable, else the spec's coefficient"),
+                       static_cast<int>(fitting::TemperatureMode::fit));
+  temperature->addItem(tr("Off: results at the bench's temperature"),
+                       static_cast<int>(fitting::TemperatureMode::off));
+  temperature->setCurrentIndex(temperature->findData(static_cast<int>(current_model.temperature)));
+  auto* bounds = new QCheckBox(tr("Over-range readings as one-sided bounds"), &dialog);
+  bounds->setChecked(current_model.censored_terms);
+  // The bench profile: its file is read when chosen; the workspace keeps its content.
+  std::optional<BenchProfile> bench = current_model.bench;
+  QString bench_name = QString::fromStdString(bench_profile_name_);
+  auto* bench_label = new QLabel(&dialog);
+  auto show_bench = [&] {
+    bench_label->setText(bench ? (bench_name.isEmpty() ? tr("(from the workspace)") : bench_name)
+                               : tr("none"));
+  };
+  show_bench();
+  auto* bench_choose = new QPushButton(tr("Choose…"), &dialog);
+  auto* bench_clear = new QPushButton(tr("None"), &dialog);
+  connect(bench_choose, &QPushButton::clicked, &dialog, [&] {
+    const QString path = QFileDialog::getOpenFileName(&dialog, tr("Bench profile"),
+                                                      QSettings().value("folders/spec").toString(),
+                                                      tr("Bench profile (*.toml);;All files (*)"));
+    if (path.isEmpty()) return;
+    BenchProfileResult loaded = load_bench_profile(path.toStdString());
+    if (!loaded.ok()) {
+      const FileError& e = *loaded.error;
+      QMessageBox::critical(
+          &dialog, tr("Bench profile"),
+          QString::fromStdString(fmt::format("{}:{}:{}: {}", e.file, e.line, e.column, e.message)));
+      return;
+    }
+    bench = loaded.profile;
+    bench_name = QFileInfo(path).fileName();
+    show_bench();
+  });
+  connect(bench_clear, &QPushButton::clicked, &dialog, [&] {
+    bench.reset();
+    bench_name.clear();
+    show_bench();
+  });
+  auto* bench_row = new QHBoxLayout;
+  bench_row->addWidget(bench_label, 1);
+  bench_row->addWidget(bench_choose);
+  bench_row->addWidget(bench_clear);
+  form->addRow(tr("Curve model"), model);
+  form->addRow(tr("Temperature"), temperature);
+  form->addRow(QString(), bounds);
+  form->addRow(tr("Bench profile"), bench_row);
   form->addRow(tr("Robust loss"), loss);
   form->addRow(tr("Meter accuracy"), accuracy);
   form->addRow(tr("Outlier beyond (× loss scale)"), threshold);
@@ -722,11 +801,25 @@ void MainWindow::editFitOptions() {
   options.meter_accuracy_pct = accuracy->value();
   options.outlier_threshold = threshold->value();
   options.confidence = confidence->value() / 100;
-  if (const std::string problem = options.validate(); !problem.empty()) {
+  fitting::ExtendedFitOptions model_options = current_model;
+  model_options.model = static_cast<fitting::ModelChoice>(model->currentData().toInt());
+  model_options.temperature =
+      static_cast<fitting::TemperatureMode>(temperature->currentData().toInt());
+  model_options.censored_terms = bounds->isChecked();
+  model_options.bench = bench;
+  std::string problem = options.validate();
+  if (problem.empty()) problem = model_options.validate();
+  if (!problem.empty()) {
     QMessageBox::warning(this, tr("Fit options"), QString::fromStdString(problem));
     return;
   }
   session_.setFitOptions(options);
+  setFitHandling({model_options, bench_name.toStdString()});
+}
+
+void MainWindow::setFitHandling(const FitHandling& handling) {
+  bench_profile_name_ = handling.bench_profile_name;
+  session_.setModelOptions(handling.model);
   session_.run();
 }
 
@@ -751,9 +844,9 @@ void MainWindow::printSummary() {
     status_text_->setText(tr("Open and fit a lot first: the summary is of its fitted curves."));
     return;
   }
-  QString path = QFileDialog::getSaveFileName(
-      this, tr("Save lot summary"), QSettings().value("folders/export").toString(),
-      tr("PDF document (*.pdf)"));
+  QString path = QFileDialog::getSaveFileName(this, tr("Save lot summary"),
+                                              QSettings().value("folders/export").toString(),
+                                              tr("PDF document (*.pdf)"));
   if (path.isEmpty()) return;
   if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".pdf");
   if (const QString error = writeSummaryTo(path); !error.isEmpty()) {
@@ -784,9 +877,8 @@ QString MainWindow::writeSummaryTo(const QString& path) {
   if (pairing) {
     report::PairsSection pairs;
     const PairOptions& o = pairing->options;
-    pairs.method = fmt::format(
-        "{} tracking error over {:g}-{:g} lx, exact maximum matching ({})",
-        to_string(o.mode), o.lux_lo, o.lux_hi, to_string(pairing->proof));
+    pairs.method = fmt::format("{} tracking error over {:g}-{:g} lx, exact maximum matching ({})",
+                               to_string(o.mode), o.lux_lo, o.lux_hi, to_string(pairing->proof));
     pairs.tolerance_pct = o.tolerance_pct;
     pairs.unpaired = pairing->unpaired.size();
     int n = 0;
@@ -840,12 +932,37 @@ void MainWindow::onBusyChanged(bool busy) {
   if (busy) {
     progress_->setRange(0, 0);
     status_text_->setText(tr("Working…"));
+  } else {
+    // The last progress poll arrives just before the session goes idle: put back what the
+    // run ended with, so the status line never keeps saying "Fitting…" after the fit.
+    status_text_->setText(result_text_.isEmpty() ? tr("Ready.") : result_text_);
   }
+}
+
+void MainWindow::showResult(const QString& text) {
+  result_text_ = text;
+  status_text_->setText(text);
 }
 
 void MainWindow::onProgress(AnalysisSession::Step step, qint64 done, qint64 total) {
   if (!session_.busy()) return;
-  const QString what = step == AnalysisSession::Step::import ? tr("Importing") : tr("Fitting");
+  QString what;
+  switch (step) {
+    case AnalysisSession::Step::import:
+      what = tr("Importing");
+      break;
+    case AnalysisSession::Step::fit:
+      what = tr("Fitting");
+      break;
+    case AnalysisSession::Step::analysis:
+      what = tr("Judging the lot");
+      break;
+    case AnalysisSession::Step::pairing:
+      what = tr("Pairing");
+      break;
+    case AnalysisSession::Step::idle:
+      return;
+  }
   if (total <= 0) {
     progress_->setRange(0, 0);
   } else {
@@ -881,10 +998,10 @@ void MainWindow::onImportFinished() {
   if (name.isEmpty() && !session_.sources().empty()) {
     name = QFileInfo(QString::fromStdString(session_.sources()[0].path)).completeBaseName();
   }
-  lot_label_->setText(tr("Lot %1 — %n unit(s)", "", static_cast<int>(result->lot.units.size()))
-                          .arg(name));
+  lot_label_->setText(
+      tr("Lot %1 — %n unit(s)", "", static_cast<int>(result->lot.units.size())).arg(name));
   if (!result->errors.empty()) {
-    status_text_->setText(QString::fromStdString(result->errors.front().message));
+    showResult(QString::fromStdString(result->errors.front().message));
     tabs_->setCurrentWidget(import_log_);
   }
   updateCountLabel();
@@ -903,14 +1020,15 @@ void MainWindow::onFitFinished() {
   model_->setLot(lot, fit);
   filter_->sort(table_->horizontalHeader()->sortIndicatorSection(),
                 table_->horizontalHeader()->sortIndicatorOrder());
-  curves_->setLot(lot.get(), fit.get());
+  curves_->setLot(lot.get(), fit.get(), session_.curveSeries());
   spread_->setFit(fit.get());
   pairs_->setFit(fit);
   pairs_->setPairing(nullptr, session_.pairingWanted());
   acceptance_->setLotLoaded(fit != nullptr);
   // Select again what was selected (by unit id), or the first unit of a new lot.
   std::unordered_map<std::string, int> by_id;
-  for (std::size_t i = 0; i < result->lot.units.size(); ++i) by_id[result->lot.units[i].id] = int(i);
+  for (std::size_t i = 0; i < result->lot.units.size(); ++i)
+    by_id[result->lot.units[i].id] = int(i);
   std::vector<int> units;
   for (const auto& id : keep) {
     if (auto it = by_id.find(id); it != by_id.end()) units.push_back(it->second);
@@ -919,11 +1037,13 @@ void MainWindow::onFitFinished() {
     units.push_back(filter_->mapToSource(filter_->index(0, 0)).row());
   }
   selectUnits(units);
+  const FitHandling handling{session_.effectiveModelOptions(), bench_profile_name_};
+  acceptance_->setFitHandling(describe_fit_handling(fit.get(), handling));
   if (fit) {
-    status_text_->setText(tr("%1 of %2 units fitted. %3")
-                              .arg(fit->fitted_count())
-                              .arg(fit->units.size())
-                              .arg(QString::fromStdString(fit->method)));
+    showResult(tr("%1 of %2 units fitted; %3. %4")
+                   .arg(fit->fitted_count())
+                   .arg(fit->units.size())
+                   .arg(brief_fit_handling(*fit, handling), QString::fromStdString(fit->method)));
   }
   updateCountLabel();
 }
@@ -933,6 +1053,7 @@ void MainWindow::onAnalysisFinished() {
   const Lot* lot = session_.lot();
   const bool spec_loaded = session_.spec().has_value();
   acceptance_->setAnalysis(analysis, lot ? lot->units.size() : 0, spec_loaded);
+  pairs_->setSpecLoaded(spec_loaded);
   std::vector<UnitVerdictText> verdicts;
   if (analysis && analysis->verdicts) {
     for (const auto& v : *analysis->verdicts) {
@@ -941,8 +1062,9 @@ void MainWindow::onAnalysisFinished() {
                                                 : UnitVerdictKind::nonconforming;
       QStringList reasons;
       for (const auto& r : v.reasons) reasons << QString::fromStdString(r.text);
-      t.text = v.verdict == Verdict::conforming ? tr("pass")
-                                                : tr("fail: %1").arg(reasons.join(QStringLiteral("; ")));
+      t.text = v.verdict == Verdict::conforming
+                   ? tr("pass")
+                   : tr("fail: %1").arg(reasons.join(QStringLiteral("; ")));
       verdicts.push_back(std::move(t));
     }
   }
@@ -950,13 +1072,16 @@ void MainWindow::onAnalysisFinished() {
   verdict_filter_->setEnabled(model_->verdictsAvailable());
   std::optional<std::pair<double, double>> r10, gamma, r10_ti, gamma_ti;
   if (const auto& spec = session_.spec()) {
-    if (spec->r10_ohm.has_min() && spec->r10_ohm.has_max()) r10 = {{spec->r10_ohm.min, spec->r10_ohm.max}};
-    if (spec->gamma.has_min() && spec->gamma.has_max()) gamma = {{spec->gamma.min, spec->gamma.max}};
+    if (spec->r10_ohm.has_min() && spec->r10_ohm.has_max())
+      r10 = {{spec->r10_ohm.min, spec->r10_ohm.max}};
+    if (spec->gamma.has_min() && spec->gamma.has_max())
+      gamma = {{spec->gamma.min, spec->gamma.max}};
   }
   if (analysis) {
     const auto& st = analysis->statistics;
     if (std::isfinite(st.ln_r10.tolerance_interval[0])) {
-      r10_ti = {{std::exp(st.ln_r10.tolerance_interval[0]), std::exp(st.ln_r10.tolerance_interval[1])}};
+      r10_ti = {
+          {std::exp(st.ln_r10.tolerance_interval[0]), std::exp(st.ln_r10.tolerance_interval[1])}};
     }
     if (std::isfinite(st.gamma.tolerance_interval[0])) {
       gamma_ti = {{st.gamma.tolerance_interval[0], st.gamma.tolerance_interval[1]}};
@@ -968,19 +1093,22 @@ void MainWindow::onAnalysisFinished() {
   spread_->setToleranceIntervals(r10_ti, gamma_ti);
 }
 
-void MainWindow::onPairingFinished() { pairs_->setPairing(session_.pairing(), false); }
+void MainWindow::onPairingFinished() {
+  pairs_->setPairing(session_.pairing(), false, session_.pairingEligibility());
+}
 
 void MainWindow::openSpec() {
-  const QString path = QFileDialog::getOpenFileName(
-      this, tr("Open spec"), QSettings().value("folders/spec").toString(),
-      tr("photolot spec (*.toml);;All files (*)"));
+  const QString path = QFileDialog::getOpenFileName(this, tr("Open spec"),
+                                                    QSettings().value("folders/spec").toString(),
+                                                    tr("photolot spec (*.toml);;All files (*)"));
   if (!path.isEmpty()) openSpecFile(path);
 }
 
 bool MainWindow::openSpecFile(const QString& path) {
   QFile file(path);
   if (!file.open(QIODevice::ReadOnly)) {
-    QMessageBox::critical(this, tr("Open spec"), tr("cannot read '%1': %2").arg(path, file.errorString()));
+    QMessageBox::critical(this, tr("Open spec"),
+                          tr("cannot read '%1': %2").arg(path, file.errorString()));
     return false;
   }
   const std::string text = file.readAll().toStdString();
@@ -1017,7 +1145,8 @@ void MainWindow::saveSpec() {
   QSaveFile file(path);
   if (!file.open(QIODevice::WriteOnly) || file.write(text.data(), qint64(text.size())) < 0 ||
       !file.commit()) {
-    QMessageBox::critical(this, tr("Save spec"), tr("cannot write '%1': %2").arg(path, file.errorString()));
+    QMessageBox::critical(this, tr("Save spec"),
+                          tr("cannot write '%1': %2").arg(path, file.errorString()));
     return;
   }
   QSettings().setValue("folders/spec", QFileInfo(path).absolutePath());
@@ -1058,12 +1187,12 @@ void MainWindow::selectUnits(const std::vector<int>& units) {
   for (std::size_t i = 0; i < rows.size();) {
     std::size_t j = i;
     while (j + 1 < rows.size() && rows[j + 1] <= rows[j] + 1) ++j;
-    selection.append(QItemSelectionRange(filter_->index(rows[i], 0),
-                                         filter_->index(rows[j], last_column)));
+    selection.append(
+        QItemSelectionRange(filter_->index(rows[i], 0), filter_->index(rows[j], last_column)));
     i = j + 1;
   }
-  table_->selectionModel()->select(selection, QItemSelectionModel::ClearAndSelect |
-                                                  QItemSelectionModel::Rows);
+  table_->selectionModel()->select(selection,
+                                   QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
   // The first row, not selection.indexes(): that lists every cell of every range.
   if (!rows.empty()) table_->scrollTo(filter_->index(rows.front(), 0));
   selection_timer_.stop();
@@ -1090,7 +1219,8 @@ void MainWindow::updateCountLabel() {
   const int shown = filter_->rowCount();
   const int total = model_->rowCount();
   const int selected = static_cast<int>(table_->selectionModel()->selectedRows().size());
-  count_label_->setText(tr("%1 of %2 units shown, %3 selected").arg(shown).arg(total).arg(selected));
+  count_label_->setText(
+      tr("%1 of %2 units shown, %3 selected").arg(shown).arg(total).arg(selected));
 }
 
 void MainWindow::setModified(bool modified) {
@@ -1123,7 +1253,7 @@ void MainWindow::closeEvent(QCloseEvent* event) {
   settings.setValue("window/geometry", saveGeometry());
   settings.setValue("window/state", saveState());
   settings.setValue("window/splitter", splitter_->saveState());
-  settings.setValue("window/unitTable", table_->horizontalHeader()->saveState());
+  settings.setValue("window/unitTableV2", table_->horizontalHeader()->saveState());
   autosave_->discard();  // a clean exit: the work was saved or thrown away on purpose
   event->accept();
 }

@@ -62,6 +62,8 @@ class MainWindow : public QMainWindow {
   QString writeSummaryTo(const QString& path);
   // Re-imports the current sources with other choices (the import dialog's result).
   void setImportOptions(const ImportOptions& options);
+  // The curve model, bench profile (with its file name) and temperature handling; refits.
+  void setFitHandling(const FitHandling& handling);
   // Select units by index into the lot (the table, the curves and the spread follow).
   void selectUnits(const std::vector<int>& units);
   std::vector<int> selectedUnits() const;
@@ -72,9 +74,12 @@ class MainWindow : public QMainWindow {
   QTableView* unitTable() const { return table_; }
   CurvesView* curvesView() const { return curves_; }
   SpreadView* spreadView() const { return spread_; }
+  PairsView* pairsView() const { return pairs_; }
+  AcceptanceView* acceptanceView() const { return acceptance_; }
   QTabWidget* tabs() const { return tabs_; }
   QString workspacePath() const { return workspace_path_; }
   bool hasUnsavedChanges() const { return isWindowModified(); }
+  QString statusText() const;
   // Answers the unsaved-changes prompt without showing it (tests): Save, Discard or Cancel.
   void setPromptAnswerForTests(int standard_button) { prompt_answer_ = standard_button; }
   // Answers the list of files a workspace reads without showing it (tests): QDialog::Accepted
@@ -114,6 +119,8 @@ class MainWindow : public QMainWindow {
   void showAbout();
 
   void onBusyChanged(bool busy);
+  // Shows the outcome of a step in the status line and keeps it for when the run ends.
+  void showResult(const QString& text);
   void onProgress(AnalysisSession::Step step, qint64 done, qint64 total);
   void onImportFinished();
   void onFitFinished();
@@ -165,6 +172,8 @@ class MainWindow : public QMainWindow {
 
   QTimer selection_timer_;
   QString workspace_path_;
+  QString result_text_;
+  std::string bench_profile_name_;  // file name of the bench profile in use (empty: none)  // what the status line says once the session is idle
   std::string spec_toml_;  // the applied spec as written to a workspace
   std::vector<std::string> pending_selection_;  // unit ids to select when the fit arrives
   int prompt_answer_ = 0;

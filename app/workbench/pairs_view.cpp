@@ -1,5 +1,8 @@
 #include "pairs_view.h"
 
+#include <qcustomplot.h>
+
+#include <QCheckBox>
 #include <QComboBox>
 #include <QDoubleSpinBox>
 #include <QFormLayout>
@@ -11,10 +14,7 @@
 #include <QSplitter>
 #include <QTableView>
 #include <QVBoxLayout>
-
 #include <cmath>
-
-#include <qcustomplot.h>
 
 #include "display_format.h"
 #include "plot_style.h"
@@ -31,25 +31,33 @@ int PairTableModel::rowCount(const QModelIndex& parent) const {
   return parent.isValid() || !pairing_ ? 0 : static_cast<int>(pairing_->pairs.size());
 }
 
-int PairTableModel::columnCount(const QModelIndex& parent) const { return parent.isValid() ? 0 : 5; }
+int PairTableModel::columnCount(const QModelIndex& parent) const {
+  return parent.isValid() ? 0 : 5;
+}
 
 QVariant PairTableModel::data(const QModelIndex& index, int role) const {
   if (!pairing_ || !index.isValid()) return {};
   const UnitPair& p = pairing_->pairs[static_cast<std::size_t>(index.row())];
   if (role == Qt::DisplayRole) {
     switch (index.column()) {
-      case 0: return index.row() + 1;
-      case 1: return QString::fromStdString(p.a_id);
-      case 2: return QString::fromStdString(p.b_id);
-      case 3: return format_number(p.tracking_error_pct, 3);
-      case 4: return format_number(p.worst_lux, 3);
+      case 0:
+        return index.row() + 1;
+      case 1:
+        return QString::fromStdString(p.a_id);
+      case 2:
+        return QString::fromStdString(p.b_id);
+      case 3:
+        return format_number(p.tracking_error_pct, 3);
+      case 4:
+        return format_number(p.worst_lux, 3);
     }
   }
   if (role == Qt::TextAlignmentRole && index.column() != 1 && index.column() != 2) {
     return static_cast<int>(Qt::AlignRight | Qt::AlignVCenter);
   }
   if (role == Qt::ToolTipRole && index.column() == 3 && std::isfinite(p.tracking_error_sigma_pct)) {
-    return tr("± %1 % (1 sd, from the fits' covariances)").arg(format_number(p.tracking_error_sigma_pct, 2));
+    return tr("± %1 % (1 sd, from the fits' covariances)")
+        .arg(format_number(p.tracking_error_sigma_pct, 2));
   }
   return {};
 }
@@ -57,11 +65,16 @@ QVariant PairTableModel::data(const QModelIndex& index, int role) const {
 QVariant PairTableModel::headerData(int section, Qt::Orientation orientation, int role) const {
   if (orientation != Qt::Horizontal || role != Qt::DisplayRole) return {};
   switch (section) {
-    case 0: return tr("Pair");
-    case 1: return tr("Unit A");
-    case 2: return tr("Unit B");
-    case 3: return tr("Error %");
-    case 4: return tr("Worst at lx");
+    case 0:
+      return tr("Pair");
+    case 1:
+      return tr("Unit A");
+    case 2:
+      return tr("Unit B");
+    case 3:
+      return tr("Error %");
+    case 4:
+      return tr("Worst at lx");
   }
   return {};
 }
@@ -83,6 +96,13 @@ PairsView::PairsView(QWidget* parent) : QWidget(parent) {
   mode_ = new QComboBox(this);
   mode_->addItem(tr("equal resistance"), static_cast<int>(TrackingMode::absolute));
   mode_->addItem(tr("constant ratio (trimmed)"), static_cast<int>(TrackingMode::trimmable));
+  all_fitted_ = new QCheckBox(tr("Include every fitted unit, not only those that conform"), this);
+  all_fitted_->setObjectName(QStringLiteral("pairAllFitted"));
+  all_fitted_->setToolTip(
+      tr("With a spec loaded, only units that conform to it are paired (as "
+         "photolot-cli does). Tick to pair every fitted unit instead."));
+  all_fitted_->setEnabled(false);
+  connect(all_fitted_, &QCheckBox::toggled, this, &PairsView::includeAllFittedChanged);
   find_ = new QPushButton(tr("Find Pairs"), this);
   find_->setObjectName(QStringLiteral("findPairsButton"));
   export_ = new QPushButton(tr("Save Pick List…"), this);
@@ -93,11 +113,13 @@ PairsView::PairsView(QWidget* parent) : QWidget(parent) {
   form->addRow(tr("to"), lux_hi_);
   form->addRow(tr("Tolerance"), tolerance_);
   form->addRow(tr("Curves must track"), mode_);
+  form->addRow(tr("Units"), all_fitted_);
   auto* buttons = new QHBoxLayout;
   buttons->addWidget(find_);
   buttons->addWidget(export_);
   form->addRow(buttons);
-  status_ = new QLabel(tr("Pairing has not run. Choose the range and tolerance, then Find Pairs."), this);
+  status_ =
+      new QLabel(tr("Pairing has not run. Choose the range and tolerance, then Find Pairs."), this);
   status_->setWordWrap(true);
 
   model_ = new PairTableModel(this);
@@ -159,25 +181,40 @@ PairOptions PairsView::options() const {
   return o;
 }
 
+void PairsView::setSpecLoaded(bool loaded) {
+  all_fitted_->setEnabled(loaded);
+  all_fitted_->setText(loaded ? tr("Include every fitted unit, not only those that conform")
+                              : tr("Every fitted unit (no spec loaded)"));
+}
+
+bool PairsView::includeAllFitted() const {
+  return all_fitted_->isEnabled() && all_fitted_->isChecked();
+}
+
 void PairsView::setFit(std::shared_ptr<const LotFit> fit) {
   fit_ = std::move(fit);
   showPair(-1);
 }
 
-void PairsView::setPairing(std::shared_ptr<const Pairing> pairing, bool stale) {
+void PairsView::setPairing(std::shared_ptr<const Pairing> pairing, bool stale,
+                           PairEligibility among) {
   model_->setPairing(pairing);
   unpaired_->clear();
   export_->setEnabled(pairing != nullptr);
   if (!pairing) {
-    status_->setText(stale ? tr("Finding pairs…")
-                           : tr("Pairing has not run. Choose the range and tolerance, then Find Pairs."));
+    status_->setText(
+        stale ? tr("Finding pairs…")
+              : tr("Pairing has not run. Choose the range and tolerance, then Find Pairs."));
     showPair(-1);
     return;
   }
   const auto& c = pairing->counts;
-  status_->setText(tr("%1 pairs from %2 fitted units, %3 without a partner. Total error %4 %; %5 (%6).")
+  const QString from = among == PairEligibility::conforming
+                           ? tr("%1 units that conform to the spec").arg(c.fitted)
+                           : tr("%1 fitted units").arg(c.fitted);
+  status_->setText(tr("%1 pairs from %2, %3 without a partner. Total error %4 %; %5 (%6).")
                        .arg(c.pairs)
-                       .arg(c.fitted)
+                       .arg(from)
                        .arg(c.unpaired)
                        .arg(format_number(pairing->total_error_pct, 4))
                        .arg(QString::fromUtf8(to_string(pairing->proof).data()),
@@ -186,10 +223,10 @@ void PairsView::setPairing(std::shared_ptr<const Pairing> pairing, bool stale) {
   for (std::size_t i = 0; i < pairing->unpaired.size() && i < kListed; ++i) {
     const auto& u = pairing->unpaired[i];
     QString text = QStringLiteral("%1 — %2").arg(QString::fromStdString(u.id),
-                                               QString::fromStdString(u.reason));
+                                                 QString::fromStdString(u.reason));
     if (!u.nearest_id.empty()) {
-      text += tr(" (nearest %1 at %2 %)").arg(QString::fromStdString(u.nearest_id),
-                                              format_number(u.nearest_error_pct, 3));
+      text += tr(" (nearest %1 at %2 %)")
+                  .arg(QString::fromStdString(u.nearest_id), format_number(u.nearest_error_pct, 3));
     }
     unpaired_->addItem(text);
   }

@@ -5,11 +5,11 @@
 
 #include <QAbstractTableModel>
 #include <QWidget>
-
 #include <memory>
 
 #include "session.h"
 
+class QCheckBox;
 class QComboBox;
 class QCustomPlot;
 class QDoubleSpinBox;
@@ -40,7 +40,14 @@ class PairsView : public QWidget {
  public:
   explicit PairsView(QWidget* parent = nullptr);
   void setFit(std::shared_ptr<const LotFit> fit);
-  void setPairing(std::shared_ptr<const Pairing> pairing, bool stale);
+  // `among` says which units the pairing took part from (shown with its counts).
+  void setPairing(std::shared_ptr<const Pairing> pairing, bool stale,
+                  PairEligibility among = PairEligibility::fitted);
+  // With a spec loaded, pairing takes the conforming units unless the box to include every
+  // fitted unit is ticked; without one the box is disabled (every fitted unit takes part).
+  void setSpecLoaded(bool loaded);
+  bool includeAllFitted() const;
+  QCheckBox* allFittedBox() const { return all_fitted_; }
   void setOptions(const PairOptions& options);
   PairOptions options() const;
 
@@ -53,6 +60,7 @@ class PairsView : public QWidget {
   void findRequested(photolot::PairOptions options);
   void pairActivated(std::size_t a, std::size_t b);
   void exportRequested();
+  void includeAllFittedChanged(bool all);
 
  private:
   std::shared_ptr<const LotFit> fit_;
@@ -65,6 +73,7 @@ class PairsView : public QWidget {
   QDoubleSpinBox* lux_hi_ = nullptr;
   QDoubleSpinBox* tolerance_ = nullptr;
   QComboBox* mode_ = nullptr;
+  QCheckBox* all_fitted_ = nullptr;
   QPushButton* find_ = nullptr;
   QPushButton* export_ = nullptr;
 };

@@ -1,6 +1,7 @@
 #include "session.h"
 
 #include <QMetaObject>
+#include <cmath>
 
 namespace photolot::workbench {
 namespace {
@@ -28,7 +29,27 @@ LotAnalysis analyse(const LotFit& fit, const std::optional<Spec>& spec) {
   return a;
 }
 
+// Equal, NaN equal to NaN (no coefficient given).
+bool same_coefficient(double a, double b) { return (std::isnan(a) && std::isnan(b)) || a == b; }
+
+double spec_coefficient(const std::optional<Spec>& spec) {
+  return spec && std::isfinite(spec->temp_coeff_pct_per_c) ? spec->temp_coeff_pct_per_c : kNaN;
+}
+
 }  // namespace
+
+fitting::ExtendedFitOptions AnalysisSession::effectiveModelOptions() const {
+  fitting::ExtendedFitOptions o = model_options_;
+  if (const double tc = spec_coefficient(spec_); std::isfinite(tc)) o.spec_tc10_pct_per_c = tc;
+  return o;
+}
+
+void AnalysisSession::setModelOptions(const fitting::ExtendedFitOptions& options) {
+  model_options_ = options;
+  saved_fit_.reset();
+  fit_stale_ = analysis_stale_ = pairing_stale_ = import_result_ != nullptr || import_stale_;
+  emit inputsChanged();
+}
 
 AnalysisSession::AnalysisSession(QObject* parent) : QObject(parent) {
   poll_timer_.setInterval(50);
@@ -44,6 +65,7 @@ void AnalysisSession::setSources(std::vector<SourceFile> sources) {
   if (sources_.empty()) {
     import_result_.reset();
     lot_fit_.reset();
+    curve_series_.reset();
     analysis_.reset();
     pairing_.reset();
   }
@@ -64,13 +86,30 @@ void AnalysisSession::setFitOptions(const fitting::FitOptions& options) {
 }
 
 void AnalysisSession::setSpec(std::optional<Spec> spec) {
+  // A spec's temperature coefficient enters the fit where the readings identify none.
+  const bool coefficient_changed =
+      model_options_.temperature != fitting::TemperatureMode::off &&
+      !same_coefficient(spec_coefficient(spec_), spec_coefficient(spec));
   spec_ = std::move(spec);
+  if (coefficient_changed && (import_result_ != nullptr || import_stale_)) {
+    saved_fit_.reset();
+    fit_stale_ = true;
+  }
   analysis_stale_ = lot_fit_ != nullptr || fit_stale_;
+  // Pairing takes the units that conform to the spec: it follows the spec too.
+  pairing_stale_ = pairing_wanted_;
   emit inputsChanged();
 }
 
 void AnalysisSession::setPairOptions(const PairOptions& options) {
   pair_options_ = options;
+  pairing_stale_ = pairing_wanted_;
+  emit inputsChanged();
+}
+
+void AnalysisSession::setPairAllFitted(bool all) {
+  if (all == pair_all_fitted_) return;
+  pair_all_fitted_ = all;
   pairing_stale_ = pairing_wanted_;
   emit inputsChanged();
 }
@@ -81,7 +120,9 @@ void AnalysisSession::setPairingWanted(bool wanted) {
   if (!wanted) pairing_.reset();
 }
 
-void AnalysisSession::offerSavedFit(std::shared_ptr<const LotFit> fit) { saved_fit_ = std::move(fit); }
+void AnalysisSession::offerSavedFit(std::shared_ptr<const LotFit> fit) {
+  saved_fit_ = std::move(fit);
+}
 
 void AnalysisSession::clear() {
   stopWorker();
@@ -91,6 +132,7 @@ void AnalysisSession::clear() {
   spec_.reset();
   import_result_.reset();
   lot_fit_.reset();
+  curve_series_.reset();
   analysis_.reset();
   pairing_.reset();
   pairing_wanted_ = false;
@@ -154,11 +196,14 @@ void AnalysisSession::startWorker() {
     std::vector<SourceFile> sources;
     ImportOptions import_options;
     fitting::FitOptions fit_options;
+    fitting::ExtendedFitOptions model_options;
     std::optional<Spec> spec;
     PairOptions pair_options;
     std::shared_ptr<const ImportResult> imported;
     std::shared_ptr<const LotFit> fit_result;
     std::shared_ptr<const LotFit> saved_fit;
+    std::shared_ptr<const LotAnalysis> analysis_result;
+    bool pair_all_fitted;
   };
   Job job{import_stale_,
           fit_stale_ || import_stale_,
@@ -167,13 +212,16 @@ void AnalysisSession::startWorker() {
           import_stale_ ? sources_ : std::vector<SourceFile>{},
           import_options_,
           fit_options_,
+          effectiveModelOptions(),
           spec_,
           pair_options_,
           import_result_,
           lot_fit_,
-          saved_fit_};
-  const Step first = job.import ? Step::import
-                     : job.fit  ? Step::fit
+          saved_fit_,
+          analysis_stale_ || fit_stale_ || import_stale_ ? nullptr : analysis_,
+          pair_all_fitted_};
+  const Step first = job.import     ? Step::import
+                     : job.fit      ? Step::fit
                      : job.analysis ? Step::analysis
                                     : Step::pairing;
   shared->step = static_cast<int>(first);
@@ -208,7 +256,8 @@ void AnalysisSession::startWorker() {
         for (const auto& s : job.sources) {
           hashes.push_back(s.sha256_hex.empty() ? sha256_hex(s.content) : s.sha256_hex);
         }
-        auto result = std::make_shared<const ImportResult>(run_import(job.sources, job.import_options));
+        auto result =
+            std::make_shared<const ImportResult>(run_import(job.sources, job.import_options));
         if (stop.stop_requested()) return;
         job.imported = result;
         post([this, result, hashes = std::move(hashes)] {
@@ -217,6 +266,7 @@ void AnalysisSession::startWorker() {
           }
           import_result_ = result;
           lot_fit_.reset();
+          curve_series_.reset();
           analysis_.reset();
           pairing_.reset();
           import_stale_ = false;
@@ -233,13 +283,18 @@ void AnalysisSession::startWorker() {
           fit = job.saved_fit;
         } else {
           fit = std::make_shared<const LotFit>(
-              run_fit(job.imported->lot, job.fit_options, progress, stop));
+              run_fit(job.imported->lot, job.fit_options, job.model_options, progress, stop));
           fitted = true;
         }
         if (stop.stop_requested()) return;
         job.fit_result = fit;
-        post([this, fit, fitted] {
+        // The curves of every unit, here rather than on the GUI thread when units are selected.
+        auto series = std::make_shared<const std::vector<UnitSeries>>(
+            build_all_curve_series(job.imported->lot, fit.get()));
+        if (stop.stop_requested()) return;
+        post([this, fit, fitted, series] {
           lot_fit_ = fit;
+          curve_series_ = series;
           analysis_.reset();  // until the analysis of this fit arrives
           pairing_.reset();
           saved_fit_.reset();
@@ -253,6 +308,7 @@ void AnalysisSession::startWorker() {
         begin(Step::analysis, 0);
         auto analysis = std::make_shared<const LotAnalysis>(analyse(*job.fit_result, job.spec));
         if (stop.stop_requested()) return;
+        job.analysis_result = analysis;
         post([this, analysis] {
           analysis_ = analysis;
           analysis_stale_ = false;
@@ -262,11 +318,26 @@ void AnalysisSession::startWorker() {
       }
       if (job.pairing) {
         begin(Step::pairing, job.fit_result->units.size());
+        // As photolot-cli: with a spec, the units that conform to it take part; else (or when
+        // asked) every fitted unit.
+        const std::vector<UnitVerdict>* verdicts =
+            job.analysis_result && job.analysis_result->verdicts ? &*job.analysis_result->verdicts
+                                                                 : nullptr;
+        const bool conforming_only = !job.pair_all_fitted && job.spec && verdicts &&
+                                     verdicts->size() == job.fit_result->units.size();
+        std::vector<std::size_t> eligible;
+        for (std::size_t i = 0; i < job.fit_result->units.size(); ++i) {
+          const bool ok = conforming_only ? (*verdicts)[i].verdict == Verdict::conforming
+                                          : job.fit_result->units[i].ok();
+          if (ok) eligible.push_back(i);
+        }
         auto pairing = std::make_shared<const Pairing>(
-            pair_units(*job.fit_result, job.pair_options, progress, stop));
+            pair_units(*job.fit_result, eligible, job.pair_options, progress, stop));
         if (stop.stop_requested() || pairing->cancelled) return;
-        post([this, pairing] {
+        const auto among = conforming_only ? PairEligibility::conforming : PairEligibility::fitted;
+        post([this, pairing, among] {
           pairing_ = pairing;
+          pairing_eligibility_ = among;
           pairing_stale_ = false;
           ++pairing_runs_;
           emit pairingFinished();

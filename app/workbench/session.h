@@ -7,14 +7,15 @@
 
 #include <QObject>
 #include <QTimer>
-
 #include <atomic>
 #include <memory>
 #include <optional>
 #include <thread>
 #include <vector>
 
+#include "curve_series.h"
 #include "engine.h"
+#include "fit_handling.h"
 #include "photolot/acceptance.h"
 #include "photolot/pairing.h"
 #include "photolot/spec.h"
@@ -29,6 +30,10 @@ struct LotAnalysis {
   std::optional<Acceptance> acceptance;
 };
 
+// Which units a pairing run took: those conforming to the spec (the default when a spec is
+// loaded, as photolot-cli does) or every fitted unit.
+enum class PairEligibility { fitted, conforming };
+
 class AnalysisSession : public QObject {
   Q_OBJECT
  public:
@@ -41,8 +46,16 @@ class AnalysisSession : public QObject {
   void setSources(std::vector<SourceFile> sources);
   void setImportOptions(const ImportOptions& options);
   void setFitOptions(const fitting::FitOptions& options);
+  // The curve model, over-range bounds, bench profile and temperature handling (models.h).
+  // Defaults as photolot-cli analyze: the power law, temperature fitted where identifiable.
+  // The spec's temperature coefficient, when it gives one, is applied where the readings do
+  // not identify a coefficient (spec_tc10_pct_per_c here is overridden by it).
+  void setModelOptions(const fitting::ExtendedFitOptions& options);
   void setSpec(std::optional<Spec> spec);
   void setPairOptions(const PairOptions& options);
+  // Pair every fitted unit even when a spec is loaded (off: only the conforming ones).
+  void setPairAllFitted(bool all);
+  bool pairAllFitted() const { return pair_all_fitted_; }
   // Pairing runs only once asked for (it can take a while on a big lot); then it follows the fit.
   void setPairingWanted(bool wanted);
   // A fit saved earlier (a workspace's results): used instead of fitting again when the next
@@ -52,6 +65,9 @@ class AnalysisSession : public QObject {
   const std::vector<SourceFile>& sources() const { return sources_; }
   const ImportOptions& importOptions() const { return import_options_; }
   const fitting::FitOptions& fitOptions() const { return fit_options_; }
+  const fitting::ExtendedFitOptions& modelOptions() const { return model_options_; }
+  // The model options the fit runs with: modelOptions() plus the spec's coefficient.
+  fitting::ExtendedFitOptions effectiveModelOptions() const;
   const std::optional<Spec>& spec() const { return spec_; }
   const PairOptions& pairOptions() const { return pair_options_; }
   bool pairingWanted() const { return pairing_wanted_; }
@@ -68,8 +84,13 @@ class AnalysisSession : public QObject {
   // Results, null until the step has run on the current inputs.
   std::shared_ptr<const ImportResult> importResult() const { return import_result_; }
   std::shared_ptr<const LotFit> lotFit() const { return lot_fit_; }
+  // What the curves view plots for every unit (lot order), built on the worker with the fit;
+  // null until then.
+  std::shared_ptr<const std::vector<UnitSeries>> curveSeries() const { return curve_series_; }
   std::shared_ptr<const LotAnalysis> analysis() const { return analysis_; }
   std::shared_ptr<const Pairing> pairing() const { return pairing_; }
+  // The units the shown pairing took part from.
+  PairEligibility pairingEligibility() const { return pairing_eligibility_; }
   const Lot* lot() const { return import_result_ ? &import_result_->lot : nullptr; }
 
   // How many times each step has run to completion (tests read them; a saved fit taken over
@@ -107,9 +128,12 @@ class AnalysisSession : public QObject {
   std::vector<SourceFile> sources_;
   ImportOptions import_options_;
   fitting::FitOptions fit_options_;
+  fitting::ExtendedFitOptions model_options_ = default_model_options();
   std::optional<Spec> spec_;
   PairOptions pair_options_;
   bool pairing_wanted_ = false;
+  bool pair_all_fitted_ = false;
+  PairEligibility pairing_eligibility_ = PairEligibility::fitted;
   std::shared_ptr<const LotFit> saved_fit_;
 
   bool import_stale_ = false;
@@ -119,6 +143,7 @@ class AnalysisSession : public QObject {
 
   std::shared_ptr<const ImportResult> import_result_;
   std::shared_ptr<const LotFit> lot_fit_;
+  std::shared_ptr<const std::vector<UnitSeries>> curve_series_;
   std::shared_ptr<const LotAnalysis> analysis_;
   std::shared_ptr<const Pairing> pairing_;
   int import_runs_ = 0;

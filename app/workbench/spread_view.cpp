@@ -1,12 +1,11 @@
 #include "spread_view.h"
 
+#include <qcustomplot.h>
+
 #include <QGridLayout>
 #include <QLabel>
-
 #include <algorithm>
 #include <cmath>
-
-#include <qcustomplot.h>
 
 #include "display_format.h"
 #include "plot_style.h"
@@ -15,7 +14,8 @@ namespace photolot::workbench {
 
 Histogram make_histogram(const std::vector<double>& input) {
   std::vector<double> v;
-  for (double x : input) if (std::isfinite(x)) v.push_back(x);
+  for (double x : input)
+    if (std::isfinite(x)) v.push_back(x);
   Histogram h;
   if (v.empty()) return h;
   std::sort(v.begin(), v.end());
@@ -94,41 +94,62 @@ SpreadView::SpreadView(QWidget* parent) : QWidget(parent) {
             const bool add = event && (event->modifiers() & Qt::ControlModifier);
             emit unitClicked(scatter_units_[static_cast<std::size_t>(data_index)], add);
           });
+  rebuild_timer_.setSingleShot(true);
+  rebuild_timer_.setInterval(0);
+  connect(&rebuild_timer_, &QTimer::timeout, this, &SpreadView::updateNow);
   rebuild();
+}
+
+void SpreadView::scheduleRebuild() {
+  dirty_ = true;
+  if (isVisible()) rebuild_timer_.start();  // hidden: showEvent rebuilds
+}
+
+void SpreadView::updateNow() {
+  rebuild_timer_.stop();
+  if (dirty_) rebuild();
+}
+
+void SpreadView::showEvent(QShowEvent* event) {
+  QWidget::showEvent(event);
+  updateNow();
 }
 
 void SpreadView::setFit(const LotFit* fit) {
   fit_ = fit;
-  rebuild();
+  scheduleRebuild();
 }
 
 void SpreadView::setSelectedUnits(const std::vector<int>& units) {
   selected_ = units;
-  drawSelection();
+  if (!dirty_) drawSelection();  // else the rebuild draws it
 }
 
 void SpreadView::setR10Limits(std::optional<std::pair<double, double>> ohm) {
   r10_limits_ = ohm;
-  rebuild();
+  scheduleRebuild();
 }
 
 void SpreadView::setGammaLimits(std::optional<std::pair<double, double>> limits) {
   gamma_limits_ = limits;
-  rebuild();
+  scheduleRebuild();
 }
 
 void SpreadView::setToleranceIntervals(std::optional<std::pair<double, double>> r10_ohm,
                                        std::optional<std::pair<double, double>> gamma) {
   r10_ti_ = r10_ohm;
   gamma_ti_ = gamma;
-  rebuild();
+  scheduleRebuild();
 }
 
 QString SpreadView::exportTo(const QString& path) {
+  updateNow();
   return export_plot(scatter_plot_, path, 1000, 700);
 }
 
 void SpreadView::rebuild() {
+  dirty_ = false;
+  ++rebuilds_;
   for (QCustomPlot* p : {r10_plot_, gamma_plot_, scatter_plot_}) {
     p->clearPlottables();
     p->clearItems();

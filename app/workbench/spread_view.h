@@ -3,8 +3,8 @@
 // when the spec and statistics steps provide them. Clicking a dot selects that unit.
 #pragma once
 
+#include <QTimer>
 #include <QWidget>
-
 #include <optional>
 #include <utility>
 #include <vector>
@@ -35,6 +35,12 @@ class SpreadView : public QWidget {
   void setGammaLimits(std::optional<std::pair<double, double>> limits);
   void setToleranceIntervals(std::optional<std::pair<double, double>> r10_ohm,
                              std::optional<std::pair<double, double>> gamma);
+  // The setters above only note a change; the plots are rebuilt once, on the next turn of
+  // the event loop while the view is shown, or when it is next shown. updateNow() rebuilds at
+  // once if something changed (tests, export); rebuilds() counts the rebuilds so far.
+  void updateNow();
+  int rebuilds() const { return rebuilds_; }
+  bool pending() const { return dirty_; }
 
   QCustomPlot* r10Plot() const { return r10_plot_; }
   QCustomPlot* gammaPlot() const { return gamma_plot_; }
@@ -47,8 +53,10 @@ class SpreadView : public QWidget {
   void unitClicked(int unit, bool add_to_selection);
 
  private:
+  void scheduleRebuild();
   void rebuild();
   void drawSelection();
+  void showEvent(QShowEvent* event) override;
 
   const LotFit* fit_ = nullptr;
   std::vector<int> selected_;
@@ -58,6 +66,9 @@ class SpreadView : public QWidget {
   QCustomPlot* gamma_plot_ = nullptr;
   QCustomPlot* scatter_plot_ = nullptr;
   QLabel* caption_ = nullptr;
+  QTimer rebuild_timer_;
+  bool dirty_ = true;
+  int rebuilds_ = 0;
 };
 
 }  // namespace photolot::workbench

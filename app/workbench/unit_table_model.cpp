@@ -3,7 +3,6 @@
 #include <QBrush>
 #include <QColor>
 #include <QFont>
-
 #include <algorithm>
 #include <cctype>
 #include <cmath>
@@ -47,7 +46,8 @@ namespace {
 
 bool less_nocase(std::string_view a, std::string_view b) {
   return std::lexicographical_compare(a.begin(), a.end(), b.begin(), b.end(), [](char x, char y) {
-    return std::tolower(static_cast<unsigned char>(x)) < std::tolower(static_cast<unsigned char>(y));
+    return std::tolower(static_cast<unsigned char>(x)) <
+           std::tolower(static_cast<unsigned char>(y));
   });
 }
 
@@ -67,25 +67,42 @@ bool UnitTableModel::rowLess(int a, int b, int column, bool ascending) const {
         for (const auto& r : u.readings) n += r.kind == ReadingKind::normal ? 1 : 0;
         return n;
       }
-      case kR10: return fitted ? f->r10_ohm : kNaN;
-      case kR10Interval: return fitted ? f->r10_ci95_ohm[1] / f->r10_ci95_ohm[0] : kNaN;
-      case kGamma: return fitted ? f->gamma : kNaN;
-      case kGammaInterval: return fitted ? f->gamma_ci95[1] - f->gamma_ci95[0] : kNaN;
-      case kRms: return fitted ? f->rms_log_residual : kNaN;
-      case kFlags: return f ? static_cast<double>(f->flags.size()) : 0.0;
+      case kR10:
+        return fitted ? f->r10_ohm : kNaN;
+      case kR10Interval:
+        return fitted ? f->r10_ci95_ohm[1] / f->r10_ci95_ohm[0] : kNaN;
+      case kGamma:
+        return fitted ? f->gamma : kNaN;
+      case kGammaInterval:
+        return fitted ? f->gamma_ci95[1] - f->gamma_ci95[0] : kNaN;
+      case kRms:
+        return fitted ? f->rms_log_residual : kNaN;
+      case kModel:
+        return fitted ? static_cast<double>(f->curve.model) : kNaN;
+      case kDarkConductance:
+        return fitted ? f->dark_conductance_s : kNaN;
+      case kTempCoeff:
+        return fitted ? f->temp_coeff_pct_per_c : kNaN;
+      case kFlags:
+        return f ? static_cast<double>(f->flags.size()) : 0.0;
       case kVerdict:
-        return verdicts_.empty() ? 0.0 : static_cast<double>(verdicts_[static_cast<std::size_t>(row)].kind);
-      default: return 0.0;
+        return verdicts_.empty()
+                   ? 0.0
+                   : static_cast<double>(verdicts_[static_cast<std::size_t>(row)].kind);
+      default:
+        return 0.0;
     }
   };
   switch (column) {
-    case kId: return less_nocase(ua.id, ub.id);
+    case kId:
+      return less_nocase(ua.id, ub.id);
     case kStatus: {
       const std::string_view sa = fa ? to_string(fa->status) : std::string_view();
       const std::string_view sb = fb ? to_string(fb->status) : std::string_view();
       return less_nocase(sa, sb);
     }
-    default: break;
+    default:
+      break;
   }
   const double x = number(fa, ua, a), y = number(fb, ub, b);
   if (std::isnan(x) || std::isnan(y)) {
@@ -112,6 +129,17 @@ int normal_points(const Unit& unit) {
   return n;
 }
 
+// How the table names a model (plain words; the JSON keeps to_string's names).
+QString model_text(ModelKind kind) {
+  switch (kind) {
+    case ModelKind::power_law:
+      return UnitTableModel::tr("power law");
+    case ModelKind::dark_conductance:
+      return UnitTableModel::tr("dark conductance");
+  }
+  return {};
+}
+
 QString join_flags(const std::vector<std::string>& flags) {
   QStringList list;
   for (const auto& f : flags) list << QString::fromStdString(f);
@@ -131,47 +159,95 @@ QVariant UnitTableModel::data(const QModelIndex& index, int role) const {
 
   if (role == kUnitIndexRole) return row;
   if (role == kFittedRole) return fitted;
-  if (role == kVerdictRole) return static_cast<int>(verdict ? verdict->kind : UnitVerdictKind::unknown);
+  if (role == kVerdictRole)
+    return static_cast<int>(verdict ? verdict->kind : UnitVerdictKind::unknown);
 
   const auto column = static_cast<Column>(index.column());
   if (role == kSortRole) {
     switch (column) {
-      case kId: return QString::fromStdString(unit.id);
-      case kPoints: return fit ? fit->points : normal_points(unit);
-      case kR10: return fitted ? fit->r10_ohm : kNaN;
-      case kR10Interval: return fitted ? fit->r10_ci95_ohm[1] / fit->r10_ci95_ohm[0] : kNaN;
-      case kGamma: return fitted ? fit->gamma : kNaN;
-      case kGammaInterval: return fitted ? fit->gamma_ci95[1] - fit->gamma_ci95[0] : kNaN;
-      case kRms: return fitted ? fit->rms_log_residual : kNaN;
-      case kStatus: return fit ? QString::fromUtf8(to_string(fit->status).data()) : QString();
-      case kFlags: return fit ? static_cast<int>(fit->flags.size()) : 0;
-      case kVerdict: return verdict ? static_cast<int>(verdict->kind) : 0;
-      case kColumnCount: break;
+      case kId:
+        return QString::fromStdString(unit.id);
+      case kPoints:
+        return fit ? fit->points : normal_points(unit);
+      case kR10:
+        return fitted ? fit->r10_ohm : kNaN;
+      case kR10Interval:
+        return fitted ? fit->r10_ci95_ohm[1] / fit->r10_ci95_ohm[0] : kNaN;
+      case kGamma:
+        return fitted ? fit->gamma : kNaN;
+      case kGammaInterval:
+        return fitted ? fit->gamma_ci95[1] - fit->gamma_ci95[0] : kNaN;
+      case kRms:
+        return fitted ? fit->rms_log_residual : kNaN;
+      case kModel:
+        return fitted ? static_cast<int>(fit->curve.model) : -1;
+      case kDarkConductance:
+        return fitted ? fit->dark_conductance_s : kNaN;
+      case kTempCoeff:
+        return fitted ? fit->temp_coeff_pct_per_c : kNaN;
+      case kStatus:
+        return fit ? QString::fromUtf8(to_string(fit->status).data()) : QString();
+      case kFlags:
+        return fit ? static_cast<int>(fit->flags.size()) : 0;
+      case kVerdict:
+        return verdict ? static_cast<int>(verdict->kind) : 0;
+      case kColumnCount:
+        break;
     }
     return {};
   }
 
   if (role == Qt::DisplayRole) {
     switch (column) {
-      case kId: return QString::fromStdString(unit.id);
-      case kPoints: return fit ? fit->points : normal_points(unit);
-      case kR10: return fitted ? format_ohm(fit->r10_ohm) : QStringLiteral("—");
-      case kR10Interval: return fitted ? format_interval(fit->r10_ci95_ohm, true) : QStringLiteral("—");
-      case kGamma: return fitted ? format_number(fit->gamma, 3) : QStringLiteral("—");
+      case kId:
+        return QString::fromStdString(unit.id);
+      case kPoints:
+        return fit ? fit->points : normal_points(unit);
+      case kR10:
+        return fitted ? format_ohm(fit->r10_ohm) : QStringLiteral("—");
+      case kR10Interval:
+        return fitted ? format_interval(fit->r10_ci95_ohm, true) : QStringLiteral("—");
+      case kGamma:
+        return fitted ? format_number(fit->gamma, 3) : QStringLiteral("—");
       case kGammaInterval:
         return fitted ? format_interval(fit->gamma_ci95, false) : QStringLiteral("—");
-      case kRms: return fitted ? format_number(fit->rms_log_residual, 2) : QStringLiteral("—");
+      case kRms:
+        return fitted ? format_number(fit->rms_log_residual, 2) : QStringLiteral("—");
+      case kModel:
+        return fitted ? model_text(fit->curve.model) : QStringLiteral("—");
+      case kDarkConductance:
+        return fitted && fit->curve.model == ModelKind::dark_conductance
+                   ? format_siemens(fit->dark_conductance_s)
+                   : QStringLiteral("—");
+      case kTempCoeff:
+        return fitted && std::isfinite(fit->temp_coeff_pct_per_c)
+                   ? tr("%1 %/°C").arg(format_number(fit->temp_coeff_pct_per_c, 3))
+                   : QStringLiteral("—");
       case kStatus:
         if (!fit) return QStringLiteral("not fitted yet");
         return QString::fromUtf8(to_string(fit->status).data()).replace('_', ' ');
-      case kFlags: return fit ? join_flags(fit->flags) : QString();
-      case kVerdict: return verdict ? verdict->text : QStringLiteral("—");
-      case kColumnCount: break;
+      case kFlags:
+        return fit ? join_flags(fit->flags) : QString();
+      case kVerdict:
+        return verdict ? verdict->text : QStringLiteral("—");
+      case kColumnCount:
+        break;
     }
     return {};
   }
   if (role == Qt::ToolTipRole) {
     if (column == kStatus && fit) return QString::fromStdString(fit->message);
+    if (column == kModel && fitted) {
+      // The evidence for the choice: AICc of each candidate that was tried (lower wins).
+      QStringList tried;
+      if (std::isfinite(fit->aicc_power_law)) {
+        tried << tr("power law AICc %1").arg(format_number(fit->aicc_power_law, 4));
+      }
+      if (std::isfinite(fit->aicc_dark_conductance)) {
+        tried << tr("dark conductance AICc %1").arg(format_number(fit->aicc_dark_conductance, 4));
+      }
+      return tried.isEmpty() ? model_text(fit->curve.model) : tried.join(QStringLiteral("; "));
+    }
     if (column == kVerdict && !verdict) {
       return tr("Verdicts appear once a spec is loaded and the acceptance step has run.");
     }
@@ -179,7 +255,8 @@ QVariant UnitTableModel::data(const QModelIndex& index, int role) const {
     return {};
   }
   if (role == Qt::TextAlignmentRole) {
-    if (column == kPoints || column == kR10 || column == kGamma || column == kRms) {
+    if (column == kPoints || column == kR10 || column == kGamma || column == kRms ||
+        column == kDarkConductance || column == kTempCoeff) {
       return static_cast<int>(Qt::AlignRight | Qt::AlignVCenter);
     }
     return {};
@@ -204,30 +281,63 @@ QVariant UnitTableModel::headerData(int section, Qt::Orientation orientation, in
   if (orientation != Qt::Horizontal) return {};
   if (role == Qt::DisplayRole) {
     switch (section) {
-      case kId: return tr("Unit");
-      case kPoints: return tr("Points");
-      case kR10: return tr("R10");
-      case kR10Interval: return tr("R10 95 %");
-      case kGamma: return tr("gamma");
-      case kGammaInterval: return tr("gamma 95 %");
-      case kRms: return tr("RMS ln");
-      case kStatus: return tr("Fit");
-      case kFlags: return tr("Flags");
-      case kVerdict: return tr("Verdict");
-      default: return {};
+      case kId:
+        return tr("Unit");
+      case kPoints:
+        return tr("Points");
+      case kR10:
+        return tr("R10");
+      case kR10Interval:
+        return tr("R10 95 %");
+      case kGamma:
+        return tr("gamma");
+      case kGammaInterval:
+        return tr("gamma 95 %");
+      case kRms:
+        return tr("RMS ln");
+      case kModel:
+        return tr("Model");
+      case kDarkConductance:
+        return tr("G dark");
+      case kTempCoeff:
+        return tr("TC");
+      case kStatus:
+        return tr("Fit");
+      case kFlags:
+        return tr("Flags");
+      case kVerdict:
+        return tr("Verdict");
+      default:
+        return {};
     }
   }
   if (role == Qt::ToolTipRole) {
     switch (section) {
-      case kR10: return tr("Resistance at 10 lx (25 °C when temperature is handled)");
-      case kR10Interval: return tr("95 % confidence interval of R10");
-      case kGamma: return tr("Slope of the log-log curve: R falls by 10^gamma per decade of light");
-      case kGammaInterval: return tr("95 % confidence interval of gamma");
-      case kRms: return tr("Root mean square of the fit residuals in ln R (0.01 ≈ 1 %)");
+      case kR10:
+        return tr("Resistance at 10 lx (25 °C when temperature is handled)");
+      case kR10Interval:
+        return tr("95 % confidence interval of R10");
+      case kGamma:
+        return tr("Slope of the log-log curve: R falls by 10^gamma per decade of light");
+      case kGammaInterval:
+        return tr("95 % confidence interval of gamma");
+      case kRms:
+        return tr("Root mean square of the fit residuals in ln R (0.01 ≈ 1 %)");
+      case kModel:
+        return tr(
+            "The curve fitted: the power law, or the power law with a dark conductance in "
+            "parallel (chosen by AICc when both are tried)");
+      case kDarkConductance:
+        return tr("The dark conductance in parallel with the photoconductance, where fitted");
+      case kTempCoeff:
+        return tr(
+            "The unit's own temperature coefficient of resistance at 10 lx, where its "
+            "readings span enough temperature to fit it");
       case kVerdict:
         return verdictsAvailable() ? tr("Verdict against the spec")
                                    : tr("Verdicts are not available yet: load a spec");
-      default: return {};
+      default:
+        return {};
     }
   }
   return {};
@@ -263,25 +373,37 @@ bool UnitFilterModel::filterAcceptsRow(int source_row, const QModelIndex& source
   const bool fitted = id.data(UnitTableModel::kFittedRole).toBool();
   const auto* units = qobject_cast<const UnitTableModel*>(model);
   switch (status_) {
-    case StatusFilter::all: break;
-    case StatusFilter::fitted: if (!fitted) return false; break;
-    case StatusFilter::not_fitted: if (fitted) return false; break;
+    case StatusFilter::all:
+      break;
+    case StatusFilter::fitted:
+      if (!fitted) return false;
+      break;
+    case StatusFilter::not_fitted:
+      if (fitted) return false;
+      break;
     case StatusFilter::flagged:
       if (units ? !units->hasFlags(source_row)
                 : model->index(source_row, UnitTableModel::kFlags, source_parent)
-                      .data().toString().isEmpty()) {
+                      .data()
+                      .toString()
+                      .isEmpty()) {
         return false;
       }
       break;
   }
   const auto verdict = static_cast<UnitVerdictKind>(id.data(UnitTableModel::kVerdictRole).toInt());
   switch (verdict_) {
-    case VerdictFilter::all: break;
-    case VerdictFilter::conforming: if (verdict != UnitVerdictKind::conforming) return false; break;
+    case VerdictFilter::all:
+      break;
+    case VerdictFilter::conforming:
+      if (verdict != UnitVerdictKind::conforming) return false;
+      break;
     case VerdictFilter::nonconforming:
       if (verdict != UnitVerdictKind::nonconforming) return false;
       break;
-    case VerdictFilter::unknown: if (verdict != UnitVerdictKind::unknown) return false; break;
+    case VerdictFilter::unknown:
+      if (verdict != UnitVerdictKind::unknown) return false;
+      break;
   }
   if (!text_.isEmpty()) {
     const QString flags =
@@ -293,7 +415,8 @@ bool UnitFilterModel::filterAcceptsRow(int source_row, const QModelIndex& source
 }
 
 bool UnitFilterModel::lessThan(const QModelIndex& left, const QModelIndex& right) const {
-  if (const auto* units = qobject_cast<const UnitTableModel*>(sourceModel()); units && units->lot()) {
+  if (const auto* units = qobject_cast<const UnitTableModel*>(sourceModel());
+      units && units->lot()) {
     return units->rowLess(left.row(), right.row(), left.column(),
                           sortOrder() == Qt::AscendingOrder);
   }

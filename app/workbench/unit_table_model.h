@@ -5,7 +5,6 @@
 
 #include <QAbstractTableModel>
 #include <QSortFilterProxyModel>
-
 #include <memory>
 #include <optional>
 #include <string>
@@ -28,7 +27,19 @@ class UnitTableModel : public QAbstractTableModel {
   Q_OBJECT
  public:
   enum Column {
-    kId, kPoints, kR10, kR10Interval, kGamma, kGammaInterval, kRms, kStatus, kFlags, kVerdict,
+    kId,
+    kPoints,
+    kR10,
+    kR10Interval,
+    kGamma,
+    kGammaInterval,
+    kModel,
+    kDarkConductance,
+    kTempCoeff,
+    kRms,
+    kStatus,
+    kFlags,
+    kVerdict,
     kColumnCount
   };
   // Data roles beyond Qt's: the raw number for sorting (NaN sorts last), the unit's index.

@@ -28,6 +28,7 @@ workspace::Document to_document(const Workspace& w) {
   }
   doc.import_options = w.import_options;
   doc.fit = fit_choices(w.fit_options);
+  doc.model = ordered(to_json(w.model));
   doc.view = {w.view.selected_units, w.view.filter, w.view.tab};
   if (w.spec.is_object()) {
     doc.spec = workspace::SpecSection{w.spec.value("file", ""), w.spec.value("toml", "")};
@@ -44,6 +45,9 @@ std::optional<std::string> from_document(workspace::Document doc, Workspace& w) 
   }
   out.import_options = doc.import_options;
   if (auto e = apply_fit_choices(doc.fit, out.fit_options)) return e;
+  if (!doc.model.is_null()) {
+    if (auto e = from_json(plain(doc.model), out.model)) return "model: " + *e;
+  }
   out.view = {doc.view.selected_units, doc.view.filter, doc.view.tab};
   if (doc.spec) out.spec = {{"file", doc.spec->file}, {"toml", doc.spec->toml}};
   if (!doc.results.is_null()) out.results = plain(doc.results);

@@ -1,5 +1,6 @@
 // The workspace file as the workbench holds it: the document of core's workspace_doc.h (format,
-// checks, path resolution; docs/workbench.md) with the fit options as the solver's own struct.
+// checks, path resolution; docs/workbench.md) with the fit options as the solver's own struct
+// and the curve-model choices of fit_handling.h (the document's "model" member).
 // Written atomically (QSaveFile).
 #pragma once
 
@@ -9,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "fit_handling.h"
 #include "photolot/fitting/fit.h"
 #include "photolot/import.h"
 #include "photolot/workspace_doc.h"
@@ -33,6 +35,7 @@ struct Workspace {
   std::vector<WorkspaceSource> sources;
   ImportOptions import_options;
   fitting::FitOptions fit_options;
+  FitHandling model;  // curve model, bench profile, temperature ("model" in the file)
   WorkspaceView view;
   nlohmann::json spec;     // null until the spec step lands
   nlohmann::json results;  // the results document, null until it lands

@@ -1,10 +1,9 @@
 // The workspace file: round trip, atomic write, changed-source detection.
 #include "workspace.h"
 
-#include <QFile>
-
 #include <gtest/gtest.h>
 
+#include <QFile>
 #include <fstream>
 
 #include "engine.h"
@@ -20,7 +19,7 @@ TEST(Workspace, RoundTripsChoicesAndKeepsPathsRelativeToItsFolder) {
   Workspace w;
   const auto [source, error] = read_source_file((dir / "logs" / "reel.csv").string());
   ASSERT_TRUE(error.empty()) << error;
-  w.sources.push_back({source.path, source.sha256_hex, source.content.size()});
+  w.sources.push_back({source.path, source.sha256_hex, source.content.size(), {}, false});
   w.import_options.delimiter = ';';
   w.import_options.ohm_unit = "kohm";
   w.import_options.overload_ohm = 2e7;
@@ -64,7 +63,7 @@ TEST(Workspace, NoticesAChangedOrMissingSource) {
   Workspace w;
   for (const char* name : {"a.csv", "b.csv"}) {
     const auto [s, e] = read_source_file((dir / name).string());
-    w.sources.push_back({s.path, s.sha256_hex, s.content.size()});
+    w.sources.push_back({s.path, s.sha256_hex, s.content.size(), {}, false});
   }
   std::ofstream(dir / "a.csv") << "unit,lux,ohm\nA,10,21000\n";
   std::filesystem::remove(dir / "b.csv");
@@ -98,10 +97,11 @@ TEST(Workspace, RefusesFitChoicesTheFitWouldRefuse) {
 
 TEST(Workspace, ABrokenFileIsRefusedAtItsLineAndColumn) {
   const auto dir = photolot::test::scratch_dir();
-  std::ofstream(dir / "cut.photolot") << "{\n  \"format\": \"photolot-workspace\",\n  \"version\": 1,\n  \"sources\": [tru";
+  std::ofstream(dir / "cut.photolot")
+      << "{\n  \"format\": \"photolot-workspace\",\n  \"version\": 1,\n  \"sources\": [tru";
   Workspace w;
   const QString error = load_workspace(QString::fromStdString((dir / "cut.photolot").string()), w);
-  EXPECT_TRUE(error.contains(QStringLiteral("cut.photolot:4:")) ) << error.toStdString();
+  EXPECT_TRUE(error.contains(QStringLiteral("cut.photolot:4:"))) << error.toStdString();
 }
 
 TEST(Workspace, SaveLeavesNoTemporaryFileAndReplacesTheOldOne) {
@@ -117,6 +117,23 @@ TEST(Workspace, SaveLeavesNoTemporaryFileAndReplacesTheOldOne) {
   Workspace back;
   ASSERT_TRUE(load_workspace(path, back).isEmpty());
   EXPECT_EQ(back.view.tab, "pairs");
+}
+
+TEST(Workspace, KeepsTheCurveModelChoicesInItsModelMember) {
+  Workspace w;
+  w.model.model.model = fitting::ModelChoice::dark_conductance;
+  w.model.model.temperature = fitting::TemperatureMode::off;
+  const std::string text = workspace_to_text(w, ".");
+  EXPECT_NE(text.find("\"model\""), std::string::npos) << text;
+  Workspace back;
+  ASSERT_FALSE(workspace_from_text(text, ".", back).has_value());
+  EXPECT_EQ(back.model.model.model, fitting::ModelChoice::dark_conductance);
+  EXPECT_EQ(back.model.model.temperature, fitting::TemperatureMode::off);
+  // A "model" member that is not an object is refused with its name.
+  const auto bad = workspace_from_text(
+      R"({"format": "photolot-workspace", "version": 1, "model": 3})", ".", back);
+  ASSERT_TRUE(bad.has_value());
+  EXPECT_NE(bad->find("model"), std::string::npos) << *bad;
 }
 
 }  // namespace

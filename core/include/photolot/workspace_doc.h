@@ -8,6 +8,7 @@
 //   {"format": "photolot-workspace", "version": 1, "saved_by": "photolot 0.1.0",
 //    "sources": [{"path": "logs/reel-07.csv", "sha256": "<64 hex digits>", "bytes": 51234}],
 //    "import": {...ImportOptions...}, "fit": {"loss": "huber", "meter_accuracy_pct": 1, ...},
+//    "model": {...the workbench's curve-model choices...},
 //    "view": {"selected_units": ["U0001"], "filter": "", "tab": "curves"},
 //    "spec": {"file": "spec.toml", "toml": "..."} or null,
 //    "results": {...the results document (results.h)...} or null}
@@ -71,6 +72,10 @@ struct Document {
   ImportOptions import_options;
   FitChoices fit;
   View view;
+  // The workbench's curve-model choices (model, bench profile, temperature handling): an
+  // object, or null when not written. Checked member by member by the workbench, which owns
+  // their meaning (the solver's options live in fitting/, above core).
+  results::Json model;
   std::optional<SpecSection> spec;
   results::Json results;              // null, or a results document that results::from_json reads
   std::vector<std::string> warnings;  // what was set aside while reading (shown, never fatal)

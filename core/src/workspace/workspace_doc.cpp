@@ -240,6 +240,7 @@ void read_document(const Json& j, const fs::path& folder, Document& doc) {
   read_import(object_member(j, "import", "import"), doc.import_options);
   doc.fit = read_fit(object_member(j, "fit", "fit"));
   doc.view = read_view(object_member(j, "view", "view"));
+  if (member(j, "model")) doc.model = object_member(j, "model", "model");
   if (member(j, "spec")) {
     const Json& spec = object_member(j, "spec", "spec");
     if (!member(spec, "toml")) throw Bad{"spec.toml", "is missing"};
@@ -388,6 +389,7 @@ std::string to_text(const Document& doc, const fs::path& folder_in) {
   if (doc.fit.confidence) fit["confidence"] = *doc.fit.confidence;
   if (doc.fit.over_range_bounds) fit["over_range_bounds"] = *doc.fit.over_range_bounds;
   j["fit"] = std::move(fit);
+  if (doc.model.is_object()) j["model"] = doc.model;
   j["view"] = {{"selected_units", doc.view.selected_units},
                {"filter", doc.view.filter},
                {"tab", doc.view.tab}};
