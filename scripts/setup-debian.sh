@@ -9,7 +9,7 @@ packages=(
   libceres-dev libeigen3-dev                       # the fits
   nlohmann-json3-dev libtomlplusplus-dev libcli11-dev libfmt-dev
   libboost-dev libboost-math-dev liblemon-dev      # statistics, matching
-  qt6-base-dev libqt6svg6-dev libqcustomplot-dev   # workbench, plots, PDF summary
+  qt6-base-dev qt6-svg-dev libqcustomplot-dev      # workbench, plots, PDF summary
   libgtest-dev libgmock-dev libbenchmark-dev       # tests and benchmarks
   libgsl-dev python3 python3-networkx              # outside references, tests only
   poppler-utils xvfb xauth                         # report text checks, screenshots
