@@ -291,7 +291,9 @@ std::optional<ScannedValue> scan_resistance(std::string_view text, char decimal)
     v.half_step = 0.5 * pow10i(d->step_exp);
     if (rest.empty()) return v;  // plain number: the column's unit applies
     const auto letter = letter_multiplier(rest[0]);
-    if (!d->point_or_exponent && letter && rest.size() > 1 && is_digit(rest[1])) {
+    // An integer part of 2^53 or more is no RKM code (and would not fit the integer below).
+    if (!d->point_or_exponent && letter && rest.size() > 1 && is_digit(rest[1]) &&
+        std::abs(d->value) < 9007199254740992.0) {
       // Letter as the decimal point: "4K7", "1M0", "6L8", "47K3".
       const LetterCode code =
           letter_code(static_cast<std::uint64_t>(std::abs(d->value)), rest, 1, *letter);
