@@ -135,7 +135,7 @@ Nodes make_nodes(const LotFit& fit, const std::vector<std::size_t>& fitted, cons
 // the tolerance (Chebyshev) lie in the same or adjacent cells.
 class CellGrid {
  public:
-  CellGrid(const Nodes& nodes, double cell) : cell_(cell) {
+  CellGrid(const Nodes& nodes, double cell) : nodes_(nodes), cell_(cell) {
     const std::size_t n = nodes.size();
     std::vector<Key> keys(n);
     for (std::size_t i = 0; i < n; ++i)
@@ -174,6 +174,20 @@ class CellGrid {
     return true;
   }
 
+  // Calls f(w) for every other node w in the cell of `node` or the eight around it.
+  template <class F>
+  void for_each_near(std::uint32_t node, F&& f) const {
+    const auto cx = static_cast<std::int64_t>(std::floor(nodes_.x[node] / cell_));
+    const auto cy = static_cast<std::int64_t>(std::floor(nodes_.y[node] / cell_));
+    for (std::int64_t dx = -1; dx <= 1; ++dx)
+      for (std::int64_t dy = -1; dy <= 1; ++dy) {
+        const Cell* b = find(cx + dx, cy + dy);
+        if (b == nullptr) continue;
+        for (std::uint32_t q = b->begin; q < b->end; ++q)
+          if (order_[q] != node) f(order_[q]);
+      }
+  }
+
  private:
   struct Key {
     std::int64_t cx, cy;
@@ -191,6 +205,7 @@ class CellGrid {
     return it != cells_.end() && it->cx == cx && it->cy == cy ? &*it : nullptr;
   }
 
+  const Nodes& nodes_;
   double cell_;
   std::vector<std::uint32_t> order_;
   std::vector<Cell> cells_;
@@ -513,12 +528,33 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
     r.problem = "the dual objective differs from the matching's weight";
 
   const BlossomForest forest(sol, n);
-  const bool ok = for_each_tolerance_edge(
-      nodes, grid, tol_ln, o.tolerance_pct,
-      [&](std::uint32_t i, std::uint32_t j, double err) {
+  // Most pairs are covered by their two node values with room to spare, so their exact cost
+  // is often not needed: from x = the plane's lower bound of the ln error (exact for two
+  // power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x), which gives a cost the pair's
+  // cost cannot be under; when even that much cost leaves the pair covered, it is. The margin
+  // of 1e-3 quanta is far above the rounding of these few operations.
+  const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
+  const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
+  const bool ok = grid.for_each_near_pair(
+      [&](std::uint32_t a, std::uint32_t b) {
+        const double lb = nodes.lower_bound_ln(a, b);
+        if (lb > tol_ln) return;
+        const std::uint32_t i = std::min(a, b), j = std::max(a, b);
+        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
+        if (nodes_cover >= full_need) return;
+        if (per_quantum > 0 && nodes_cover >= 0) {
+          // Covered when 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4).
+          const Wide c_needed = Wide(costing.big) - nodes_cover / Matcher::dualScale;
+          const double x = lb;
+          const double below_expm1 = x * (1 + x * (0.5 + x * (1.0 / 6 + x / 24)));
+          if (c_needed <= costing.max_cost &&
+              below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
+            return;
+        }
+        const double err = to_pct(nodes.exact_ln(a, b));
+        if (err > o.tolerance_pct) return;
         const std::int64_t c = costing.cost(err);
         const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
-        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
         // Blossom values were checked non-negative above, so an edge the two node values
         // cover needs no blossom sum.
         if (nodes_cover >= need) return;
@@ -867,22 +903,31 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
       near_violation[e.i] = near_violation[e.j] = 1;
     }
     if (!why_not.empty()) break;
-    // Each round solves a whole component again, so add more than the violating pairs: every
-    // pair within tolerance at their units, which makes a further round rare.
+    // Add more than the violating pairs: every pair within tolerance at their units, which
+    // makes a further round rare. Found from the grid cells around those units alone.
     const std::size_t before = edges.size();
-    if (!for_each_tolerance_edge(
-            nodes, grid, tol_ln, o.tolerance_pct,
-            [&](std::uint32_t i, std::uint32_t j, double err) {
-              if ((near_violation[i] || near_violation[j]) &&
-                  !std::binary_search(keys.begin(), keys.end(), edge_key(i, j))) {
-                edges.push_back({i, j, err, costing.cost(err)});
-                added.push_back(edges.back());
-                touched.push_back(i);
-                touched.push_back(j);
-              }
-            },
-            stop))
-      return cancelled();
+    std::vector<std::uint64_t> near_pairs;
+    for (std::uint32_t v = 0; v < n; ++v) {
+      if (!near_violation[v]) continue;
+      if ((v & 1023) == 0 && stop.stop_requested()) return cancelled();
+      grid.for_each_near(v, [&](std::uint32_t w) {
+        if (near_violation[w] && w < v) return;  // found from w's side
+        if (nodes.lower_bound_ln(v, w) > tol_ln) return;
+        const std::uint64_t key = edge_key(std::min(v, w), std::max(v, w));
+        if (!std::binary_search(keys.begin(), keys.end(), key)) near_pairs.push_back(key);
+      });
+    }
+    std::sort(near_pairs.begin(), near_pairs.end());
+    for (std::uint64_t key : near_pairs) {
+      const auto i = static_cast<std::uint32_t>(key >> 32);
+      const auto j = static_cast<std::uint32_t>(key & 0xffffffffu);
+      const double err = to_pct(nodes.exact_ln(i, j));
+      if (err > o.tolerance_pct) continue;
+      edges.push_back({i, j, err, costing.cost(err)});
+      added.push_back(edges.back());
+      touched.push_back(i);
+      touched.push_back(j);
+    }
     out.counts.repaired_edges += edges.size() - before;
   }
   out.counts.rounds = std::min<std::size_t>(round + 1, std::size_t(o.max_repair_rounds));
