@@ -934,10 +934,14 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   out.counts.matched_edges = edges.size();
   if (proved) {
     out.proof = ProofStatus::proved_optimal;
+    const std::string warm_note =
+        out.counts.warm_rounds == 0
+            ? std::string()
+            : fmt::format(", {} of them run on from the last solve", out.counts.warm_rounds);
     out.proof_detail = fmt::format(
-        "dual certificate checked on all {} pairs within tolerance ({} solve round{}, {} edge{} "
-        "added by the check)",
-        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s",
+        "dual certificate checked on all {} pairs within tolerance ({} solve round{}{}, {} "
+        "edge{} added by the check)",
+        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s", warm_note,
         out.counts.repaired_edges, out.counts.repaired_edges == 1 ? "" : "s");
   } else {
     out.proof = ProofStatus::not_proved;
