@@ -300,6 +300,7 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
   std::mt19937_64 rng(8);
   std::uniform_real_distribution<double> lg(std::log(1 / 21e3), std::log(1 / 19e3)), gm(0.74, 0.76),
       gd(0, 2e-6);
+  std::size_t warm_rounds = 0;
   for (int seed = 0; seed < 30; ++seed) {
     LotFit fit;
     const int n = 4 + seed % 7;
@@ -312,7 +313,6 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
     }
     PairOptions o;
     o.tolerance_pct = 4;
-    const Pairing p = photolot::pair_units(fit, o);
     // brute force with tracking_error
     std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
     for (int i = 0; i < n; ++i)
@@ -322,10 +322,18 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
         if (e <= o.tolerance_pct) err[i][j] = err[j][i] = e;
       }
     const Best best = best_matching(err);
-    EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed;
-    EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
-    EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+    // The default cap, and one candidate per unit so that the (warm) repair runs on the grid.
+    for (int cap : {16, 1}) {
+      o.candidate_cap_per_unit = cap;
+      const Pairing p = photolot::pair_units(fit, o);
+      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " cap " << cap;
+      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
+      EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+      EXPECT_EQ(p.counts.warm_fallbacks, 0u);
+      warm_rounds += p.counts.warm_rounds;
+    }
   }
+  EXPECT_GT(warm_rounds, 0u) << "no lot exercised the warm repair on grid curves";
 }
 
 TEST(Pairing, ReportsEveryUnitAsUnpairedWhenNoPairIsWithinTolerance) {
