@@ -51,13 +51,15 @@ double peak_rss_mb() {
 }
 
 void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct,
-         int cap = photolot::PairOptions{}.candidate_cap_per_unit, bool spatial_order = true) {
+         int cap = photolot::PairOptions{}.candidate_cap_per_unit, bool spatial_order = true,
+         bool warm_repair = true) {
   const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
   photolot::PairOptions o;
   o.mode = mode;
   o.tolerance_pct = tolerance_pct;
   o.candidate_cap_per_unit = cap;
   o.spatial_order = spatial_order;
+  o.warm_repair = warm_repair;
   photolot::Pairing p;
   for (auto _ : state) {
     p = photolot::pair_units(fit, o);
@@ -69,6 +71,8 @@ void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_
   state.counters["largest_component"] = double(p.counts.largest_component);
   state.counters["rounds"] = double(p.counts.rounds);
   state.counters["repaired"] = double(p.counts.repaired_edges);
+  state.counters["warm_rounds"] = double(p.counts.warm_rounds);
+  state.counters["warm_fallbacks"] = double(p.counts.warm_fallbacks);
   state.counters["proved"] = p.proof == photolot::ProofStatus::proved_optimal ? 1 : 0;
   state.counters["peak_rss_MB"] = peak_rss_mb();
   state.SetComplexityN(state.range(0));
@@ -87,6 +91,11 @@ void BM_PairTrimmable05pct(benchmark::State& state) {
 void BM_PairAbsolute2pctLotOrder(benchmark::State& state) {
   run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
       false);
+}
+// Every repair round solved from scratch (the warm repair off), for comparison in one run.
+void BM_PairAbsolute2pctCold(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
+      true, false);
 }
 // The candidate cap's trade-off: a smaller first graph against more repair.
 void BM_PairAbsolute2pctCap(benchmark::State& state) {
@@ -117,6 +126,13 @@ BENCHMARK(BM_PairTrimmable05pct)
     ->MeasureProcessCPUTime();
 
 BENCHMARK(BM_PairAbsolute2pctLotOrder)
+    ->Arg(10000)
+    ->Arg(100000)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+
+BENCHMARK(BM_PairAbsolute2pctCold)
     ->Arg(10000)
     ->Arg(100000)
     ->Unit(benchmark::kMillisecond)

@@ -13,7 +13,7 @@ int main() {
   for (int n : {150, 300, 500}) {
     for (photolot::TrackingMode mode :
          {photolot::TrackingMode::absolute, photolot::TrackingMode::trimmable}) {
-      for (int cap : {16, 2}) {
+      for (int cap : {16, 2, 1}) {
         // Denser lots for the larger cases: more pairs within tolerance, more blossoms.
         const double spread = n == 150 ? 0.12 : 0.07;
         std::normal_distribution<double> ln_r10(std::log(20e3), spread), gamma(0.75, spread / 6);
@@ -32,9 +32,10 @@ int main() {
         const photolot::Pairing p = photolot::pair_units(fit, o);
         std::printf("case %d n=%d mode=%s cap=%d\n", ++case_no, n,
                     std::string(to_string(mode)).c_str(), cap);
-        std::printf("ours %zu %.12g %.12g %s\n", p.pairs.size(), p.total_error_pct,
+        std::printf("ours %zu %.12g %.12g %s %zu %zu\n", p.pairs.size(), p.total_error_pct,
                     p.total_error_rounding_bound_pct,
-                    p.proof == photolot::ProofStatus::proved_optimal ? "proved" : "not-proved");
+                    p.proof == photolot::ProofStatus::proved_optimal ? "proved" : "not-proved",
+                    p.counts.warm_rounds, p.counts.warm_fallbacks);
         for (int i = 0; i < n; ++i)
           for (int j = i + 1; j < n; ++j) {
             const double e =

@@ -138,6 +138,71 @@ TEST(Pairing, RepairsACandidateCapThatMissesImprovingPairs) {
   EXPECT_GT(repaired, 0u) << "no lot exercised the repair";
 }
 
+TEST(Pairing, WarmRepairRoundsMatchBruteForceAndTheColdRepair) {
+  // One or two candidates per unit, so that the warm repair (the matching run on from its
+  // last state) runs in most lots, often several rounds; reference: exhaustive enumeration
+  // of all matchings, and the same lot with every round solved from scratch.
+  std::mt19937_64 rng(424242);
+  std::size_t warm_rounds = 0, several = 0;
+  for (int seed = 0; seed < 200; ++seed) {
+    const int n = 4 + seed % 9;  // 4 ... 12 units
+    const LotFit fit = random_plane_lot(rng, n, seed % 2 ? 0.04 : 0.07);
+    for (TrackingMode mode : {TrackingMode::absolute, TrackingMode::trimmable}) {
+      PairOptions o;
+      o.mode = mode;
+      o.tolerance_pct = 2.0;
+      o.candidate_cap_per_unit = 1 + seed % 2;
+      const Pairing p = photolot::pair_units(fit, o);
+      PairOptions cold = o;
+      cold.warm_repair = false;
+      const Pairing q = photolot::pair_units(fit, cold);
+      const Best best = brute_force(fit, o);
+      ASSERT_TRUE(is_matching(p, fit.units.size()));
+      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " n " << n;
+      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
+          << "seed " << seed << " n " << n;
+      EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+      EXPECT_EQ(p.pairs.size(), q.pairs.size()) << "seed " << seed;
+      EXPECT_NEAR(p.total_error_pct, q.total_error_pct, 2 * p.total_error_rounding_bound_pct);
+      EXPECT_EQ(q.counts.warm_rounds, 0u);
+      EXPECT_EQ(p.counts.warm_fallbacks, 0u) << "seed " << seed;
+      warm_rounds += p.counts.warm_rounds;
+      several += p.counts.warm_rounds >= 2;
+    }
+  }
+  EXPECT_GT(warm_rounds, 50u) << "too few lots exercised the warm repair";
+  EXPECT_GT(several, 0u) << "no lot needed two warm repair rounds";
+}
+
+TEST(Pairing, WarmRepairOnLargerLotsAgreesWithTheColdRepair) {
+  // 200-600 units with one or two candidates each: many blossoms, many violated pairs per
+  // round. Reference: the same lot with every round solved from scratch by LEMON's own
+  // matching (both must be proved by the certificate; pairs equal, totals within rounding).
+  std::mt19937_64 rng(9001);
+  std::size_t warm_rounds = 0;
+  for (int seed = 0; seed < 12; ++seed) {
+    const int n = 200 + 40 * seed;
+    const LotFit fit = random_plane_lot(rng, n, 0.2);
+    PairOptions o;
+    o.mode = seed % 3 == 2 ? TrackingMode::trimmable : TrackingMode::absolute;
+    o.tolerance_pct = o.mode == TrackingMode::absolute ? 2.0 : 0.5;
+    o.candidate_cap_per_unit = 1 + seed % 2;
+    const Pairing p = photolot::pair_units(fit, o);
+    PairOptions cold = o;
+    cold.warm_repair = false;
+    const Pairing q = photolot::pair_units(fit, cold);
+    ASSERT_TRUE(is_matching(p, fit.units.size()));
+    EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+    EXPECT_EQ(q.proof, ProofStatus::proved_optimal) << q.proof_detail;
+    EXPECT_EQ(p.pairs.size(), q.pairs.size()) << "seed " << seed;
+    EXPECT_NEAR(p.total_error_pct, q.total_error_pct, 2 * p.total_error_rounding_bound_pct + 1e-9)
+        << "seed " << seed;
+    EXPECT_EQ(p.counts.warm_fallbacks, 0u) << "seed " << seed;
+    warm_rounds += p.counts.warm_rounds;
+  }
+  EXPECT_GT(warm_rounds, 6u) << "too few lots exercised the warm repair";
+}
+
 TEST(Pairing, HandBuiltStarIsRepairedIntoTwoPairs) {
   // Plane offsets in units of 0.01 (ln): A (0, 0), B (0.1, 0.1), C (-0.5, 0), D (0.05, -0.52).
   // Nearest candidates: A-B for A and B, A for C (0.50) and for D (0.52), so with one candidate
@@ -235,6 +300,7 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
   std::mt19937_64 rng(8);
   std::uniform_real_distribution<double> lg(std::log(1 / 21e3), std::log(1 / 19e3)), gm(0.74, 0.76),
       gd(0, 2e-6);
+  std::size_t warm_rounds = 0;
   for (int seed = 0; seed < 30; ++seed) {
     LotFit fit;
     const int n = 4 + seed % 7;
@@ -247,7 +313,6 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
     }
     PairOptions o;
     o.tolerance_pct = 4;
-    const Pairing p = photolot::pair_units(fit, o);
     // brute force with tracking_error
     std::vector<std::vector<double>> err(n, std::vector<double>(n, -1));
     for (int i = 0; i < n; ++i)
@@ -257,10 +322,18 @@ TEST(Pairing, MixedModelsAreMatchedOnTheGridAgainstBruteForceOfTheDefinition) {
         if (e <= o.tolerance_pct) err[i][j] = err[j][i] = e;
       }
     const Best best = best_matching(err);
-    EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed;
-    EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
-    EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+    // The default cap, and one candidate per unit so that the (warm) repair runs on the grid.
+    for (int cap : {16, 1}) {
+      o.candidate_cap_per_unit = cap;
+      const Pairing p = photolot::pair_units(fit, o);
+      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " cap " << cap;
+      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9);
+      EXPECT_EQ(p.proof, ProofStatus::proved_optimal);
+      EXPECT_EQ(p.counts.warm_fallbacks, 0u);
+      warm_rounds += p.counts.warm_rounds;
+    }
   }
+  EXPECT_GT(warm_rounds, 0u) << "no lot exercised the warm repair on grid curves";
 }
 
 TEST(Pairing, ReportsEveryUnitAsUnpairedWhenNoPairIsWithinTolerance) {

@@ -44,6 +44,10 @@ struct PairOptions {
   // The matching sees the units in Z-order over the plane (for memory locality) rather than
   // in lot order; the result is exact either way.
   bool spatial_order = true;
+  // A repair round lets the matching run on from its last state (blossoms and dual kept) with
+  // the new edges, instead of solving the component again from scratch; the check after it
+  // is the same, and a repair that cannot go on falls back to the solve from scratch.
+  bool warm_repair = true;
 
   // Empty when valid; otherwise names the field, its value and the rule.
   std::string validate() const;
@@ -89,6 +93,8 @@ struct PairingCounts {
   std::size_t largest_component = 0;  // units in the largest
   std::size_t rounds = 0;             // solve-and-check rounds
   std::size_t repaired_edges = 0;     // edges added because the check found them improving
+  std::size_t warm_rounds = 0;        // repair rounds run on from the last state
+  std::size_t warm_fallbacks = 0;     // warm repairs that could not go on (solved from scratch)
 };
 
 struct Pairing {

@@ -12,11 +12,13 @@
 #include <cmath>
 #include <cstdint>
 #include <limits>
+#include <memory>
 #include <numeric>
 #include <tuple>
 #include <utility>
 
 #include "lemon_cxx20.h"
+#include "warm_matching.h"
 
 namespace photolot {
 namespace {
@@ -133,7 +135,7 @@ Nodes make_nodes(const LotFit& fit, const std::vector<std::size_t>& fitted, cons
 // the tolerance (Chebyshev) lie in the same or adjacent cells.
 class CellGrid {
  public:
-  CellGrid(const Nodes& nodes, double cell) : cell_(cell) {
+  CellGrid(const Nodes& nodes, double cell) : nodes_(nodes), cell_(cell) {
     const std::size_t n = nodes.size();
     std::vector<Key> keys(n);
     for (std::size_t i = 0; i < n; ++i)
@@ -172,6 +174,20 @@ class CellGrid {
     return true;
   }
 
+  // Calls f(w) for every other node w in the cell of `node` or the eight around it.
+  template <class F>
+  void for_each_near(std::uint32_t node, F&& f) const {
+    const auto cx = static_cast<std::int64_t>(std::floor(nodes_.x[node] / cell_));
+    const auto cy = static_cast<std::int64_t>(std::floor(nodes_.y[node] / cell_));
+    for (std::int64_t dx = -1; dx <= 1; ++dx)
+      for (std::int64_t dy = -1; dy <= 1; ++dy) {
+        const Cell* b = find(cx + dx, cy + dy);
+        if (b == nullptr) continue;
+        for (std::uint32_t q = b->begin; q < b->end; ++q)
+          if (order_[q] != node) f(order_[q]);
+      }
+  }
+
  private:
   struct Key {
     std::int64_t cx, cy;
@@ -189,6 +205,7 @@ class CellGrid {
     return it != cells_.end() && it->cx == cx && it->cy == cy ? &*it : nullptr;
   }
 
+  const Nodes& nodes_;
   double cell_;
   std::vector<std::uint32_t> order_;
   std::vector<Cell> cells_;
@@ -249,6 +266,39 @@ struct Solution {
 
 using Graph = lemon::SmartGraph;
 using Matcher = lemon::MaxWeightedMatching<Graph, Graph::EdgeMap<std::int64_t>>;
+using WarmMatcher = detail::WarmWeightedMatching<Graph, Graph::EdgeMap<std::int64_t>>;
+static_assert(Matcher::dualScale == WarmMatcher::dualScale);
+
+// Copies a solved matching of graph g (node k of g is node nodes[k] of the lot) into `sol`.
+template <class M>
+void read_solution(const M& m, const Graph& g, const std::vector<std::uint32_t>& nodes,
+                   Solution& sol) {
+  for (std::size_t k = 0; k < nodes.size(); ++k) {
+    const Graph::Node h = g.nodeFromId(static_cast<int>(k));
+    const Graph::Node mate = m.mate(h);
+    sol.mate[nodes[k]] = mate == lemon::INVALID ? -1 : std::int64_t(nodes[g.id(mate)]);
+    sol.potential[nodes[k]] = m.nodeValue(h);
+    sol.has_position[nodes[k]] = 0;
+  }
+  // Blossoms come inner first (post-order). Walking them outer first, a blossom whose first
+  // node has no position yet is outermost: its nodes get consecutive positions in LEMON's
+  // order, and every blossom inside it is then the range from its first node's position.
+  // Only outermost blossoms are walked node by node, so this is linear in the component.
+  for (int b = m.blossomNum() - 1; b >= 0; --b) {
+    typename M::BlossomIt it(m, b);
+    const std::uint32_t first = nodes[g.id(Graph::Node(it))];
+    const auto size = static_cast<std::uint64_t>(m.blossomSize(b));
+    if (!sol.has_position[first]) {
+      for (; it != lemon::INVALID; ++it) {
+        const std::uint32_t v = nodes[g.id(Graph::Node(it))];
+        sol.position[v] = sol.next_position++;
+        sol.has_position[v] = 1;
+      }
+    }
+    const std::uint64_t begin = sol.position[first];
+    sol.blossoms.push_back({m.blossomValue(b), begin, begin + size, first});
+  }
+}
 
 // Solves one connected component (its nodes in the order the matching is to see them, the
 // edges among them) into `sol`.
@@ -275,30 +325,95 @@ void solve_component(const std::vector<std::uint32_t>& nodes, std::vector<const 
   }
   Matcher m(g, weight);
   m.run();
-  for (std::size_t k = 0; k < nodes.size(); ++k) {
-    const Graph::Node mate = m.mate(handle[k]);
-    sol.mate[nodes[k]] = mate == lemon::INVALID ? -1 : std::int64_t(nodes[g.id(mate)]);
-    sol.potential[nodes[k]] = m.nodeValue(handle[k]);
-    sol.has_position[nodes[k]] = 0;
-  }
-  // Blossoms come inner first (post-order). Walking them outer first, a blossom whose first
-  // node has no position yet is outermost: its nodes get consecutive positions in LEMON's
-  // order, and every blossom inside it is then the range from its first node's position.
-  // Only outermost blossoms are walked node by node, so this is linear in the component.
-  for (int b = m.blossomNum() - 1; b >= 0; --b) {
-    Matcher::BlossomIt it(m, b);
-    const std::uint32_t first = nodes[g.id(Graph::Node(it))];
-    const auto size = static_cast<std::uint64_t>(m.blossomSize(b));
-    if (!sol.has_position[first]) {
-      for (; it != lemon::INVALID; ++it) {
-        const std::uint32_t v = nodes[g.id(Graph::Node(it))];
-        sol.position[v] = sol.next_position++;
-        sol.has_position[v] = 1;
-      }
+  read_solution(m, g, nodes, sol);
+}
+
+// The warm path (docs/pairing.md, "repair"): one matching over all the lot's nodes, kept
+// between rounds. The first round solves from scratch; a repair round adds the new edges to
+// the same graph and lets the matching cover the violated constraints and run on from its
+// last state instead of solving again.
+class WarmRun {
+ public:
+  // `order`: the lot's nodes in the order the matching sees them.
+  WarmRun(const std::vector<std::uint32_t>& order, std::size_t n) : order_(order), local_(n) {
+    g_.reserveNode(static_cast<int>(order.size()));
+    for (std::size_t k = 0; k < order.size(); ++k) {
+      g_.addNode();
+      local_[order[k]] = static_cast<std::uint32_t>(k);
     }
-    const std::uint64_t begin = sol.position[first];
-    sol.blossoms.push_back({m.blossomValue(b), begin, begin + size, first});
+    weight_ = std::make_unique<Graph::EdgeMap<std::int64_t>>(g_);
+    m_ = std::make_unique<WarmMatcher>(g_, *weight_);
   }
+
+  void solve(std::vector<const Edge*> edges, std::int64_t big, Solution& sol) {
+    std::sort(edges.begin(), edges.end(), [&](const Edge* a, const Edge* b) {
+      return std::minmax(local_[a->i], local_[a->j]) < std::minmax(local_[b->i], local_[b->j]);
+    });
+    g_.reserveEdge(static_cast<int>(edges.size()));
+    for (const Edge* e : edges) add(*e, big);
+    m_->run();
+    read(sol);
+  }
+
+  // Adds `added` (edges within tolerance not in the graph yet, the violating ones among
+  // them) and repairs. False when the repair found the state other than expected.
+  bool repair(const std::vector<Edge>& added, const std::vector<Edge>& violations, std::int64_t big,
+              Solution& sol) {
+    std::vector<std::pair<std::uint64_t, Graph::Edge>> made;
+    made.reserve(added.size());
+    for (const Edge& e : added) made.push_back({edge_key(e.i, e.j), add(e, big)});
+    std::sort(made.begin(), made.end(),
+              [](const auto& a, const auto& b) { return a.first < b.first; });
+    m_->beginRepair();
+    for (const Edge& e : violations) {
+      const std::uint64_t key = edge_key(e.i, e.j);
+      auto it = std::lower_bound(made.begin(), made.end(), key,
+                                 [](const auto& a, std::uint64_t k) { return a.first < k; });
+      if (it == made.end() || it->first != key) return false;
+      if (!m_->admit(it->second)) return false;
+    }
+    if (!m_->resume()) return false;
+    read(sol);
+    return true;
+  }
+
+ private:
+  Graph::Edge add(const Edge& e, std::int64_t big) {
+    const Graph::Edge ge = g_.addEdge(g_.nodeFromId(static_cast<int>(local_[e.i])),
+                                      g_.nodeFromId(static_cast<int>(local_[e.j])));
+    (*weight_)[ge] = big - e.cost;
+    return ge;
+  }
+  void read(Solution& sol) {
+    sol.blossoms.clear();
+    sol.next_position = 0;
+    read_solution(*m_, g_, order_, sol);
+  }
+
+  std::vector<std::uint32_t> order_;
+  std::vector<std::uint32_t> local_;
+  Graph g_;
+  std::unique_ptr<Graph::EdgeMap<std::int64_t>> weight_;
+  std::unique_ptr<WarmMatcher> m_;
+};
+
+// Whether sol.mate is a matching on the given edges (each node's mate names it back and the
+// two are joined by an edge): the certificate's equality of weights proves optimality only
+// for a matching.
+bool is_matching(const Solution& sol, const std::vector<Edge>& edges) {
+  const std::size_t n = sol.mate.size();
+  std::size_t matched = 0;
+  for (std::size_t v = 0; v < n; ++v) {
+    const std::int64_t w = sol.mate[v];
+    if (w < 0) continue;
+    if (std::size_t(w) >= n || sol.mate[std::size_t(w)] != std::int64_t(v) || std::size_t(w) == v)
+      return false;
+    ++matched;
+  }
+  std::size_t on_edges = 0;
+  for (const Edge& e : edges)
+    if (sol.mate[e.i] == std::int64_t(e.j)) on_edges += 2;
+  return on_edges == matched;
 }
 
 // The forest of nested blossoms, for the sum of z_B over the blossoms holding two nodes: the
@@ -413,12 +528,33 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
     r.problem = "the dual objective differs from the matching's weight";
 
   const BlossomForest forest(sol, n);
-  const bool ok = for_each_tolerance_edge(
-      nodes, grid, tol_ln, o.tolerance_pct,
-      [&](std::uint32_t i, std::uint32_t j, double err) {
+  // Most pairs are covered by their two node values with room to spare, so their exact cost
+  // is often not needed: from x = the plane's lower bound of the ln error (exact for two
+  // power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x), which gives a cost the pair's
+  // cost cannot be under; when even that much cost leaves the pair covered, it is. The margin
+  // of 1e-3 quanta is far above the rounding of these few operations.
+  const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
+  const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
+  const bool ok = grid.for_each_near_pair(
+      [&](std::uint32_t a, std::uint32_t b) {
+        const double lb = nodes.lower_bound_ln(a, b);
+        if (lb > tol_ln) return;
+        const std::uint32_t i = std::min(a, b), j = std::max(a, b);
+        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
+        if (nodes_cover >= full_need) return;
+        if (per_quantum > 0 && nodes_cover >= 0) {
+          // Covered when 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4).
+          const Wide c_needed = Wide(costing.big) - nodes_cover / Matcher::dualScale;
+          const double x = lb;
+          const double below_expm1 = x * (1 + x * (0.5 + x * (1.0 / 6 + x / 24)));
+          if (c_needed <= costing.max_cost &&
+              below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
+            return;
+        }
+        const double err = to_pct(nodes.exact_ln(a, b));
+        if (err > o.tolerance_pct) return;
         const std::int64_t c = costing.cost(err);
         const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
-        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
         // Blossom values were checked non-negative above, so an edge the two node values
         // cover needs no blossom sum.
         if (nodes_cover >= need) return;
@@ -673,6 +809,11 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   std::vector<std::uint32_t> touched(n);  // endpoints of edges added since the last solve
   std::iota(touched.begin(), touched.end(), 0u);
   std::vector<std::uint64_t> keys;
+  // The warm path until a repair fails, then the cold one (every touched component solved
+  // from scratch); either way the certificate check decides.
+  bool warm = o.warm_repair;
+  std::unique_ptr<WarmRun> warm_run;
+  std::vector<Edge> added, violations;
   bool proved = false;
   std::string why_not;
   std::size_t round = 0;
@@ -691,12 +832,41 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     std::erase_if(sol.blossoms,
                   [&](const Solution::Blossom& b) { return dirty[sets.find(b.some_member)]; });
 
+    bool solved_warm = false;
+    if (warm) {
+      if (stop.stop_requested()) return cancelled();
+      if (!warm_run) {
+        warm_run = std::make_unique<WarmRun>(solve_order, n);
+        std::vector<const Edge*> all(edges.size());
+        for (std::size_t k = 0; k < edges.size(); ++k) all[k] = &edges[k];
+        warm_run->solve(std::move(all), costing.big, sol);
+        solved_warm = true;
+      } else {
+        solved_warm =
+            warm_run->repair(added, violations, costing.big, sol) && is_matching(sol, edges);
+        if (solved_warm) ++out.counts.warm_rounds;
+      }
+      if (!solved_warm) {
+        // Fall back to solving every component from scratch.
+        warm = false;
+        warm_run.reset();
+        ++out.counts.warm_fallbacks;
+        std::fill(dirty.begin(), dirty.end(), 1);
+        sol.blossoms.clear();
+        sol.next_position = 0;
+        std::fill(sol.mate.begin(), sol.mate.end(), -1);
+        std::fill(sol.potential.begin(), sol.potential.end(), 0);
+      } else {
+        report(2 * n);
+      }
+    }
+
     std::size_t components = 0, largest = 0, solved = 0;
     for (std::uint32_t root = 0; root < n; ++root) {
       if (comp_edges[root].empty()) continue;
       ++components;
       largest = std::max(largest, members[root].size());
-      if (!dirty[root]) continue;
+      if (!dirty[root] || solved_warm) continue;
       if (stop.stop_requested()) return cancelled();
       solve_component(members[root], comp_edges[root], costing.big, local, sol);
       solved += members[root].size();
@@ -720,6 +890,8 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     for (const Edge& e : edges) keys.push_back(edge_key(e.i, e.j));
     std::sort(keys.begin(), keys.end());
     touched.clear();
+    added.clear();
+    violations = check.violations;
     std::vector<char> near_violation(n, 0);
     for (const Edge& e : check.violations) {
       if (std::binary_search(keys.begin(), keys.end(), edge_key(e.i, e.j))) {
@@ -731,31 +903,45 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
       near_violation[e.i] = near_violation[e.j] = 1;
     }
     if (!why_not.empty()) break;
-    // Each round solves a whole component again, so add more than the violating pairs: every
-    // pair within tolerance at their units, which makes a further round rare.
+    // Add more than the violating pairs: every pair within tolerance at their units, which
+    // makes a further round rare. Found from the grid cells around those units alone.
     const std::size_t before = edges.size();
-    if (!for_each_tolerance_edge(
-            nodes, grid, tol_ln, o.tolerance_pct,
-            [&](std::uint32_t i, std::uint32_t j, double err) {
-              if ((near_violation[i] || near_violation[j]) &&
-                  !std::binary_search(keys.begin(), keys.end(), edge_key(i, j))) {
-                edges.push_back({i, j, err, costing.cost(err)});
-                touched.push_back(i);
-                touched.push_back(j);
-              }
-            },
-            stop))
-      return cancelled();
+    std::vector<std::uint64_t> near_pairs;
+    for (std::uint32_t v = 0; v < n; ++v) {
+      if (!near_violation[v]) continue;
+      if ((v & 1023) == 0 && stop.stop_requested()) return cancelled();
+      grid.for_each_near(v, [&](std::uint32_t w) {
+        if (near_violation[w] && w < v) return;  // found from w's side
+        if (nodes.lower_bound_ln(v, w) > tol_ln) return;
+        const std::uint64_t key = edge_key(std::min(v, w), std::max(v, w));
+        if (!std::binary_search(keys.begin(), keys.end(), key)) near_pairs.push_back(key);
+      });
+    }
+    std::sort(near_pairs.begin(), near_pairs.end());
+    for (std::uint64_t key : near_pairs) {
+      const auto i = static_cast<std::uint32_t>(key >> 32);
+      const auto j = static_cast<std::uint32_t>(key & 0xffffffffu);
+      const double err = to_pct(nodes.exact_ln(i, j));
+      if (err > o.tolerance_pct) continue;
+      edges.push_back({i, j, err, costing.cost(err)});
+      added.push_back(edges.back());
+      touched.push_back(i);
+      touched.push_back(j);
+    }
     out.counts.repaired_edges += edges.size() - before;
   }
   out.counts.rounds = std::min<std::size_t>(round + 1, std::size_t(o.max_repair_rounds));
   out.counts.matched_edges = edges.size();
   if (proved) {
     out.proof = ProofStatus::proved_optimal;
+    const std::string warm_note =
+        out.counts.warm_rounds == 0
+            ? std::string()
+            : fmt::format(", {} of them run on from the last solve", out.counts.warm_rounds);
     out.proof_detail = fmt::format(
-        "dual certificate checked on all {} pairs within tolerance ({} solve round{}, {} edge{} "
-        "added by the check)",
-        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s",
+        "dual certificate checked on all {} pairs within tolerance ({} solve round{}{}, {} "
+        "edge{} added by the check)",
+        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s", warm_note,
         out.counts.repaired_edges, out.counts.repaired_edges == 1 ? "" : "s");
   } else {
     out.proof = ProofStatus::not_proved;
