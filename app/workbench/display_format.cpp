@@ -1,6 +1,7 @@
 #include "display_format.h"
 
 #include <fmt/format.h>
+#include <photolot/number_format.h>
 
 #include <cmath>
 
@@ -19,18 +20,8 @@ std::string sig(double value, int digits) {
 }  // namespace
 
 QString format_ohm(double ohm) {
-  if (!std::isfinite(ohm)) return kDash;
-  struct Prefix {
-    double scale;
-    const char* name;
-  };
-  static constexpr Prefix kPrefixes[] = {{1e9, "GΩ"}, {1e6, "MΩ"}, {1e3, "kΩ"}, {1, "Ω"}};
-  for (const auto& p : kPrefixes) {
-    if (std::fabs(ohm) >= p.scale * 0.9995 || p.scale == 1) {
-      return QString::fromStdString(fmt::format("{} {}", sig(ohm / p.scale, 3), p.name));
-    }
-  }
-  return kDash;
+  // The one resistance formatter the command line, the summary and the verdicts use too.
+  return QString::fromStdString(photolot::format_ohm(ohm));
 }
 
 QString format_siemens(double siemens) {

@@ -7,7 +7,8 @@
 
 namespace photolot::workbench {
 
-// Resistance with an SI prefix and 3 significant digits: "20.3 kΩ", "1.50 MΩ"; "—" for NaN.
+// Resistance with an SI prefix and 3 significant digits: "20.3 kΩ", "1.50 MΩ"; "—" for NaN
+// (photolot::format_ohm, shared with the command line and the summary).
 QString format_ohm(double ohm);
 // Conductance with an SI prefix and 3 significant digits: "4.20 nS", "1.05 µS"; "—" for NaN.
 QString format_siemens(double siemens);

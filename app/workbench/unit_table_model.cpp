@@ -51,48 +51,55 @@ bool less_nocase(std::string_view a, std::string_view b) {
   });
 }
 
+int normal_points(const Unit& unit) {
+  int n = 0;
+  for (const auto& r : unit.readings) n += r.kind == ReadingKind::normal ? 1 : 0;
+  return n;
+}
+
+// A numeric column's value for one unit: what the table sorts by and, formatted, shows. NaN
+// where the unit has none (not fitted); 0 for the text columns, which sort as text.
+double column_number(int column, const Unit& u, const UnitFit* f, const UnitVerdictText* verdict) {
+  const bool fitted = f && f->ok();
+  switch (column) {
+    case UnitTableModel::kPoints:
+      return f ? f->points : normal_points(u);
+    case UnitTableModel::kR10:
+      return fitted ? f->r10_ohm : kNaN;
+    case UnitTableModel::kR10Interval:
+      return fitted ? f->r10_ci95_ohm[1] / f->r10_ci95_ohm[0] : kNaN;
+    case UnitTableModel::kGamma:
+      return fitted ? f->gamma : kNaN;
+    case UnitTableModel::kGammaInterval:
+      return fitted ? f->gamma_ci95[1] - f->gamma_ci95[0] : kNaN;
+    case UnitTableModel::kRms:
+      return fitted ? f->rms_log_residual : kNaN;
+    case UnitTableModel::kModel:
+      return fitted ? static_cast<double>(f->curve.model) : kNaN;
+    case UnitTableModel::kDarkConductance:
+      return fitted ? f->dark_conductance_s : kNaN;
+    case UnitTableModel::kTempCoeff:
+      return fitted ? f->temp_coeff_pct_per_c : kNaN;
+    case UnitTableModel::kFlags:
+      return f ? static_cast<double>(f->flags.size()) : 0.0;
+    case UnitTableModel::kVerdict:
+      return verdict ? static_cast<double>(verdict->kind) : 0.0;
+    default:
+      return 0.0;
+  }
+}
+
 }  // namespace
+
+const UnitVerdictText* UnitTableModel::verdictAt(int unit) const {
+  return verdicts_.empty() ? nullptr : &verdicts_[static_cast<std::size_t>(unit)];
+}
 
 bool UnitTableModel::rowLess(int a, int b, int column, bool ascending) const {
   const auto& ua = lot_->units[static_cast<std::size_t>(a)];
   const auto& ub = lot_->units[static_cast<std::size_t>(b)];
   const UnitFit* fa = unitFit(a);
   const UnitFit* fb = unitFit(b);
-  auto number = [&](const UnitFit* f, const Unit& u, int row) -> double {
-    const bool fitted = f && f->ok();
-    switch (column) {
-      case kPoints: {
-        if (f) return f->points;
-        int n = 0;
-        for (const auto& r : u.readings) n += r.kind == ReadingKind::normal ? 1 : 0;
-        return n;
-      }
-      case kR10:
-        return fitted ? f->r10_ohm : kNaN;
-      case kR10Interval:
-        return fitted ? f->r10_ci95_ohm[1] / f->r10_ci95_ohm[0] : kNaN;
-      case kGamma:
-        return fitted ? f->gamma : kNaN;
-      case kGammaInterval:
-        return fitted ? f->gamma_ci95[1] - f->gamma_ci95[0] : kNaN;
-      case kRms:
-        return fitted ? f->rms_log_residual : kNaN;
-      case kModel:
-        return fitted ? static_cast<double>(f->curve.model) : kNaN;
-      case kDarkConductance:
-        return fitted ? f->dark_conductance_s : kNaN;
-      case kTempCoeff:
-        return fitted ? f->temp_coeff_pct_per_c : kNaN;
-      case kFlags:
-        return f ? static_cast<double>(f->flags.size()) : 0.0;
-      case kVerdict:
-        return verdicts_.empty()
-                   ? 0.0
-                   : static_cast<double>(verdicts_[static_cast<std::size_t>(row)].kind);
-      default:
-        return 0.0;
-    }
-  };
   switch (column) {
     case kId:
       return less_nocase(ua.id, ub.id);
@@ -104,7 +111,8 @@ bool UnitTableModel::rowLess(int a, int b, int column, bool ascending) const {
     default:
       break;
   }
-  const double x = number(fa, ua, a), y = number(fb, ub, b);
+  const double x = column_number(column, ua, fa, verdictAt(a));
+  const double y = column_number(column, ub, fb, verdictAt(b));
   if (std::isnan(x) || std::isnan(y)) {
     if (std::isnan(x) && std::isnan(y)) return a < b;
     return ascending ? std::isnan(y) : std::isnan(x);
@@ -122,12 +130,6 @@ int UnitTableModel::columnCount(const QModelIndex& parent) const {
 }
 
 namespace {
-
-int normal_points(const Unit& unit) {
-  int n = 0;
-  for (const auto& r : unit.readings) n += r.kind == ReadingKind::normal ? 1 : 0;
-  return n;
-}
 
 // How the table names a model (plain words; the JSON keeps to_string's names).
 QString model_text(ModelKind kind) {
@@ -154,8 +156,7 @@ QVariant UnitTableModel::data(const QModelIndex& index, int role) const {
   const Unit& unit = lot_->units[static_cast<std::size_t>(row)];
   const UnitFit* fit = unitFit(row);
   const bool fitted = fit && fit->ok();
-  const UnitVerdictText* verdict =
-      verdicts_.empty() ? nullptr : &verdicts_[static_cast<std::size_t>(row)];
+  const UnitVerdictText* verdict = verdictAt(row);
 
   if (role == kUnitIndexRole) return row;
   if (role == kFittedRole) return fitted;
@@ -167,34 +168,11 @@ QVariant UnitTableModel::data(const QModelIndex& index, int role) const {
     switch (column) {
       case kId:
         return QString::fromStdString(unit.id);
-      case kPoints:
-        return fit ? fit->points : normal_points(unit);
-      case kR10:
-        return fitted ? fit->r10_ohm : kNaN;
-      case kR10Interval:
-        return fitted ? fit->r10_ci95_ohm[1] / fit->r10_ci95_ohm[0] : kNaN;
-      case kGamma:
-        return fitted ? fit->gamma : kNaN;
-      case kGammaInterval:
-        return fitted ? fit->gamma_ci95[1] - fit->gamma_ci95[0] : kNaN;
-      case kRms:
-        return fitted ? fit->rms_log_residual : kNaN;
-      case kModel:
-        return fitted ? static_cast<int>(fit->curve.model) : -1;
-      case kDarkConductance:
-        return fitted ? fit->dark_conductance_s : kNaN;
-      case kTempCoeff:
-        return fitted ? fit->temp_coeff_pct_per_c : kNaN;
       case kStatus:
         return fit ? QString::fromUtf8(to_string(fit->status).data()) : QString();
-      case kFlags:
-        return fit ? static_cast<int>(fit->flags.size()) : 0;
-      case kVerdict:
-        return verdict ? static_cast<int>(verdict->kind) : 0;
-      case kColumnCount:
-        break;
+      default:
+        return column_number(column, unit, fit, verdict);
     }
-    return {};
   }
 
   if (role == Qt::DisplayRole) {
@@ -202,7 +180,7 @@ QVariant UnitTableModel::data(const QModelIndex& index, int role) const {
       case kId:
         return QString::fromStdString(unit.id);
       case kPoints:
-        return fit ? fit->points : normal_points(unit);
+        return static_cast<int>(column_number(column, unit, fit, verdict));
       case kR10:
         return fitted ? format_ohm(fit->r10_ohm) : QStringLiteral("—");
       case kR10Interval:

@@ -70,6 +70,8 @@ class UnitTableModel : public QAbstractTableModel {
                       int role = Qt::DisplayRole) const override;
 
  private:
+  const UnitVerdictText* verdictAt(int unit) const;  // nullptr before verdicts are set
+
   std::shared_ptr<const Lot> lot_;
   std::shared_ptr<const LotFit> fit_;
   std::vector<UnitVerdictText> verdicts_;
