@@ -94,6 +94,21 @@ bool is_matching(const Pairing& p, std::size_t n) {
   return seen.size() == n;
 }
 
+// The pairing of `fit` under `o` against exhaustive enumeration of all matchings (the
+// definition of the objective): a matching of the lot, as many pairs, the same total within
+// rounding, proved optimal, every pair within tolerance.
+void expect_brute_force_result(const Pairing& p, const LotFit& fit, const PairOptions& o,
+                               int seed) {
+  const std::size_t n = fit.units.size();
+  const Best best = brute_force(fit, o);
+  ASSERT_TRUE(is_matching(p, n));
+  EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " n " << n;
+  EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
+      << "seed " << seed << " n " << n;
+  EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+  for (const auto& pr : p.pairs) EXPECT_LE(pr.tracking_error_pct, o.tolerance_pct);
+}
+
 }  // namespace
 
 TEST(Pairing, MatchesBruteForceOnSmallLotsInBothModes) {
@@ -107,13 +122,7 @@ TEST(Pairing, MatchesBruteForceOnSmallLotsInBothModes) {
       o.mode = mode;
       o.tolerance_pct = 2.0;
       const Pairing p = photolot::pair_units(fit, o);
-      const Best best = brute_force(fit, o);
-      ASSERT_TRUE(is_matching(p, fit.units.size()));
-      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " n " << n;
-      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
-          << "seed " << seed << " n " << n;
-      EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
-      for (const auto& pr : p.pairs) EXPECT_LE(pr.tracking_error_pct, o.tolerance_pct);
+      expect_brute_force_result(p, fit, o, seed);
     }
   }
 }
@@ -156,12 +165,7 @@ TEST(Pairing, WarmRepairRoundsMatchBruteForceAndTheColdRepair) {
       PairOptions cold = o;
       cold.warm_repair = false;
       const Pairing q = photolot::pair_units(fit, cold);
-      const Best best = brute_force(fit, o);
-      ASSERT_TRUE(is_matching(p, fit.units.size()));
-      EXPECT_EQ(int(p.pairs.size()), best.pairs) << "seed " << seed << " n " << n;
-      EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
-          << "seed " << seed << " n " << n;
-      EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+      expect_brute_force_result(p, fit, o, seed);
       EXPECT_EQ(p.pairs.size(), q.pairs.size()) << "seed " << seed;
       EXPECT_NEAR(p.total_error_pct, q.total_error_pct, 2 * p.total_error_rounding_bound_pct);
       EXPECT_EQ(q.counts.warm_rounds, 0u);
