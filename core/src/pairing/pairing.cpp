@@ -17,13 +17,14 @@
 #include <tuple>
 #include <utility>
 
+#include "blossom_sums.h"
 #include "lemon_cxx20.h"
 #include "warm_matching.h"
 
 namespace photolot {
 namespace {
 
-__extension__ typedef __int128 Wide;  // sums of dual values, beyond int64 for large lots
+using Wide = detail::WideSum;  // sums of dual values, beyond int64 for large lots
 
 // Lux values of the evaluation grid: log-spaced, both ends included exactly.
 std::vector<double> grid_lux(const PairOptions& o) {
@@ -416,74 +417,26 @@ bool is_matching(const Solution& sol, const std::vector<Edge>& edges) {
   return on_edges == matched;
 }
 
-// The forest of nested blossoms, for the sum of z_B over the blossoms holding two nodes: the
-// blossoms holding both are the ancestors of the innermost one holding the first whose range
-// also covers the second, found by binary lifting.
+// The sum of z_B over the blossoms holding two nodes (blossom_sums.h); a node outside every
+// blossom has no position and shares none.
 class BlossomForest {
  public:
-  BlossomForest(const Solution& sol, std::size_t n) : sol_(sol), innermost_(n, -1) {
-    const auto& bl = sol.blossoms;
-    std::vector<std::uint32_t> order(bl.size());
-    std::iota(order.begin(), order.end(), 0u);
-    std::sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) {
-      return std::tie(bl[a].begin, bl[b].end) < std::tie(bl[b].begin, bl[a].end);
-    });
-    std::vector<std::uint32_t> nodes;
-    for (std::uint32_t v = 0; v < n; ++v)
-      if (sol.has_position[v]) nodes.push_back(v);
-    std::sort(nodes.begin(), nodes.end(),
-              [&](std::uint32_t a, std::uint32_t b) { return sol.position[a] < sol.position[b]; });
-    std::size_t levels = 1;
-    while ((std::size_t(1) << levels) < bl.size() + 1) ++levels;
-    up_.assign(levels, std::vector<std::int32_t>(bl.size(), -1));
-    prefix_.assign(bl.size(), 0);
-    // Sweep positions: open blossoms on a stack, inner on top.
-    std::vector<std::uint32_t> open;
-    std::size_t next = 0;
-    auto close_before = [&](std::uint64_t pos) {
-      while (!open.empty() && bl[open.back()].end <= pos) open.pop_back();
-    };
-    auto push_starting_at_or_before = [&](std::uint64_t pos) {
-      while (next < order.size() && bl[order[next]].begin <= pos) {
-        const std::uint32_t b = order[next++];
-        close_before(bl[b].begin);
-        up_[0][b] = open.empty() ? -1 : std::int32_t(open.back());
-        prefix_[b] = Wide(bl[b].value) + (open.empty() ? Wide(0) : prefix_[open.back()]);
-        open.push_back(b);
-      }
-    };
-    for (std::uint32_t v : nodes) {
-      push_starting_at_or_before(sol.position[v]);
-      close_before(sol.position[v]);
-      innermost_[v] = open.empty() ? -1 : std::int32_t(open.back());
-    }
-    push_starting_at_or_before(std::numeric_limits<std::uint64_t>::max());
-    for (std::size_t j = 1; j < levels; ++j)
-      for (std::size_t b = 0; b < bl.size(); ++b)
-        up_[j][b] = up_[j - 1][b] < 0 ? -1 : up_[j - 1][up_[j - 1][b]];
-  }
+  explicit BlossomForest(const Solution& sol) : sol_(sol), sums_(sol.next_position, ranges(sol)) {}
 
-  // Sum of z_B over the blossoms holding both u and v.
   Wide shared_value(std::uint32_t u, std::uint32_t v) const {
-    std::int32_t b = innermost_[u];
-    if (b < 0 || innermost_[v] < 0) return 0;
-    const std::uint64_t pv = sol_.position[v];
-    auto holds = [&](std::int32_t k) {
-      return sol_.blossoms[k].begin <= pv && pv < sol_.blossoms[k].end;
-    };
-    if (!holds(b)) {
-      for (std::size_t j = up_.size(); j-- > 0;)
-        if (up_[j][b] >= 0 && !holds(up_[j][b])) b = up_[j][b];
-      b = up_[0][b];
-    }
-    return b < 0 ? Wide(0) : prefix_[b];
+    if (!sol_.has_position[u] || !sol_.has_position[v]) return 0;
+    return sums_.shared(sol_.position[u], sol_.position[v]);
   }
 
  private:
+  static std::vector<detail::BlossomSums::Blossom> ranges(const Solution& sol) {
+    std::vector<detail::BlossomSums::Blossom> r;
+    r.reserve(sol.blossoms.size());
+    for (const auto& b : sol.blossoms) r.push_back({b.begin, b.end, b.value});
+    return r;
+  }
   const Solution& sol_;
-  std::vector<std::int32_t> innermost_;
-  std::vector<std::vector<std::int32_t>> up_;
-  std::vector<Wide> prefix_;
+  detail::BlossomSums sums_;
 };
 
 // The certificate check (docs/pairing.md): y >= 0, z >= 0 on odd sets, dual objective equal to
@@ -527,7 +480,7 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
   if (dual != primal * Matcher::dualScale && r.problem.empty())
     r.problem = "the dual objective differs from the matching's weight";
 
-  const BlossomForest forest(sol, n);
+  const BlossomForest forest(sol);
   // Most pairs are covered by their two node values with room to spare, so their exact cost
   // is often not needed: from x = the plane's lower bound of the ln error (exact for two
   // power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x), which gives a cost the pair's

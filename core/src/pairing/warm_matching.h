@@ -50,7 +50,10 @@
 //   visible, each given edge whose dual constraint fails is covered by raising node values
 //   inside the blossoms around one end (paid for by those blossoms' values, breaking one pair
 //   per level), and the primal-dual loop runs on from there;
-// - a record of each blossom's parent, which the read-out and the repair need.
+// - a record of each blossom's parent, which the read-out and the repair need;
+// - each node's map from tree to arc is a small vector (TreeArcMap) instead of a std::map, and
+//   the node duals sit in one array of their own (_node_pot): the same algorithm and result,
+//   with less memory traffic when a large blossom changes state.
 // docs/pairing.md describes the repair; the caller's certificate check stays the proof.
 #pragma once
 
@@ -76,6 +79,31 @@ using lemon::INVALID;
 using lemon::Invalid;
 using lemon::MaxWeightedFractionalMatching;
 using lemon::RangeMap;
+
+// photolot: a node's map from tree to its best arc into that tree held in a small unsorted
+// vector instead of a std::map (a node rarely borders more than a few trees; the map's
+// allocations and pointer chasing were a large part of a big blossom's change of state).
+template <typename Arc>
+class TreeArcMap {
+ public:
+  using value_type = std::pair<int, Arc>;
+  using iterator = typename std::vector<value_type>::iterator;
+  iterator begin() { return items_.begin(); }
+  iterator end() { return items_.end(); }
+  iterator find(int tree) {
+    return std::find_if(items_.begin(), items_.end(),
+                        [tree](const value_type& v) { return v.first == tree; });
+  }
+  void insert(const value_type& v) { items_.push_back(v); }
+  void erase(iterator it) {
+    *it = items_.back();
+    items_.pop_back();
+  }
+  void clear() { items_.clear(); }
+
+ private:
+  std::vector<value_type> items_;
+};
 
   /// \tparam WM The type edge weight map. The default type is
   /// \ref concepts::Graph::EdgeMap "GR::EdgeMap<int>".
@@ -164,15 +192,17 @@ using lemon::RangeMap;
       NodeData(IntArcMap& node_heap_index)
         : heap(node_heap_index) {}
 
-      int blossom;
-      Value pot;
+      int blossom = 0;
       BinHeap<Value, IntArcMap> heap;
-      std::map<int, Arc> heap_index;
+      TreeArcMap<Arc> heap_index;
 
-      int tree;
+      int tree = 0;
     };
 
     RangeMap<NodeData>* _node_data;
+    // photolot: the nodes' duals apart from the rest of NodeData, read for both ends of every
+    // arc a blossom's change of state walks (one dense array keeps those reads in cache).
+    std::vector<Value> _node_pot;
 
     typedef ExtendFindEnum<IntIntMap> TreeSet;
 
@@ -236,10 +266,12 @@ using lemon::RangeMap;
         _node_heap_index = new IntArcMap(_graph);
         _node_data = new RangeMap<NodeData>(_node_num,
                                             NodeData(*_node_heap_index));
+        _node_pot.assign(_node_num, 0);
       } else {
         delete _node_data;
         _node_data = new RangeMap<NodeData>(_node_num,
                                             NodeData(*_node_heap_index));
+        _node_pot.assign(_node_num, 0);
       }
 
       if (!_tree_set) {
@@ -334,16 +366,16 @@ using lemon::RangeMap;
         (*_node_data)[ni].heap.clear();
         (*_node_data)[ni].heap_index.clear();
 
-        (*_node_data)[ni].pot += _delta_sum - (*_blossom_data)[blossom].offset;
+        _node_pot[ni] += _delta_sum - (*_blossom_data)[blossom].offset;
 
-        _delta1->push(n, (*_node_data)[ni].pot);
+        _delta1->push(n, _node_pot[ni]);
 
         for (InArcIt e(_graph, n); e != INVALID; ++e) {
           Node v = _graph.source(e);
           int vb = _blossom_set->find(v);
           int vi = (*_node_index)[v];
 
-          Value rw = (*_node_data)[ni].pot + (*_node_data)[vi].pot -
+          Value rw = _node_pot[ni] + _node_pot[vi] -
             dualScale * _weight[e];
 
           if ((*_blossom_data)[vb].status == EVEN) {
@@ -351,7 +383,7 @@ using lemon::RangeMap;
               _delta3->push(e, rw / 2);
             }
           } else {
-            typename std::map<int, Arc>::iterator it =
+            typename TreeArcMap<Arc>::iterator it =
               (*_node_data)[vi].heap_index.find(tree);
 
             if (it != (*_node_data)[vi].heap_index.end()) {
@@ -404,7 +436,7 @@ using lemon::RangeMap;
       for (typename BlossomSet::ItemIt n(*_blossom_set, blossom);
            n != INVALID; ++n) {
         int ni = (*_node_index)[n];
-        (*_node_data)[ni].pot -= _delta_sum;
+        _node_pot[ni] -= _delta_sum;
 
         _delta1->erase(n);
 
@@ -413,7 +445,7 @@ using lemon::RangeMap;
           int vb = _blossom_set->find(v);
           int vi = (*_node_index)[v];
 
-          Value rw = (*_node_data)[ni].pot + (*_node_data)[vi].pot -
+          Value rw = _node_pot[ni] + _node_pot[vi] -
             dualScale * _weight[e];
 
           if (vb == blossom) {
@@ -432,7 +464,7 @@ using lemon::RangeMap;
 
               Arc r = _graph.oppositeArc(e);
 
-              typename std::map<int, Arc>::iterator it =
+              typename TreeArcMap<Arc>::iterator it =
                 (*_node_data)[ni].heap_index.find(vt);
 
               if (it != (*_node_data)[ni].heap_index.end()) {
@@ -462,7 +494,7 @@ using lemon::RangeMap;
             }
           } else {
 
-            typename std::map<int, Arc>::iterator it =
+            typename TreeArcMap<Arc>::iterator it =
               (*_node_data)[vi].heap_index.find(tree);
 
             if (it != (*_node_data)[vi].heap_index.end()) {
@@ -519,17 +551,17 @@ using lemon::RangeMap;
 
         (*_node_data)[ni].heap.clear();
         (*_node_data)[ni].heap_index.clear();
-        (*_node_data)[ni].pot +=
+        _node_pot[ni] +=
           2 * _delta_sum - (*_blossom_data)[blossom].offset;
 
-        _delta1->push(n, (*_node_data)[ni].pot);
+        _delta1->push(n, _node_pot[ni]);
 
         for (InArcIt e(_graph, n); e != INVALID; ++e) {
           Node v = _graph.source(e);
           int vb = _blossom_set->find(v);
           int vi = (*_node_index)[v];
 
-          Value rw = (*_node_data)[ni].pot + (*_node_data)[vi].pot -
+          Value rw = _node_pot[ni] + _node_pot[vi] -
             dualScale * _weight[e];
 
           if ((*_blossom_data)[vb].status == EVEN) {
@@ -538,7 +570,7 @@ using lemon::RangeMap;
             }
           } else {
 
-            typename std::map<int, Arc>::iterator it =
+            typename TreeArcMap<Arc>::iterator it =
               (*_node_data)[vi].heap_index.find(tree);
 
             if (it != (*_node_data)[vi].heap_index.end()) {
@@ -929,7 +961,7 @@ using lemon::RangeMap;
         int bi = (*_node_index)[base];
         (*_matching)[base] = matching;
         _blossom_node_list.push_back(base);
-        (*_node_potential)[base] = (*_node_data)[bi].pot - offset;
+        (*_node_potential)[base] = _node_pot[bi] - offset;
       } else {
         Value pot = (*_blossom_data)[blossom].pot + (top ? 2 * offset : 0);
         int bn = _blossom_node_list.size();
@@ -984,7 +1016,7 @@ using lemon::RangeMap;
     // ---- photolot: the warm repair, between two runs of the loop (no trees). ----
 
     Value realY(const Node& n) const {
-      return (*_node_data)[(*_node_index)[n]].pot -
+      return _node_pot[(*_node_index)[n]] -
              (*_blossom_data)[_blossom_set->find(n)].offset;
     }
     Value realZ(int top) const {
@@ -1235,7 +1267,7 @@ using lemon::RangeMap;
         (*_node_index)[n] = index;
         (*_node_data)[index].heap_index.clear();
         (*_node_data)[index].heap.clear();
-        (*_node_data)[index].pot = max;
+        _node_pot[index] = max;
         _delta1->push(n, max);
         int blossom =
           _blossom_set->insert(n, std::numeric_limits<Value>::max());
@@ -1255,7 +1287,7 @@ using lemon::RangeMap;
         int si = (*_node_index)[_graph.u(e)];
         int ti = (*_node_index)[_graph.v(e)];
         if (_graph.u(e) != _graph.v(e)) {
-          _delta3->push(e, ((*_node_data)[si].pot + (*_node_data)[ti].pot -
+          _delta3->push(e, (_node_pot[si] + _node_pot[ti] -
                             dualScale * _weight[e]) / 2);
         }
       }
@@ -1307,7 +1339,7 @@ using lemon::RangeMap;
       for (NodeIt n(_graph); n != INVALID; ++n) {
         Value pot = _fractional->nodeValue(n);
         (*_node_index)[n] = index;
-        (*_node_data)[index].pot = pot;
+        _node_pot[index] = pot;
         (*_node_data)[index].heap_index.clear();
         (*_node_data)[index].heap.clear();
         int blossom =
@@ -1373,7 +1405,7 @@ using lemon::RangeMap;
         int tb = _blossom_set->find(_graph.v(e));
         if ((*_blossom_data)[sb].status == EVEN &&
             (*_blossom_data)[tb].status == EVEN && sb != tb) {
-          _delta3->push(e, ((*_node_data)[si].pot + (*_node_data)[ti].pot -
+          _delta3->push(e, (_node_pot[si] + _node_pot[ti] -
                             dualScale * _weight[e]) / 2);
         }
       }
@@ -1388,14 +1420,14 @@ using lemon::RangeMap;
           int vb = _blossom_set->find(v);
           int vi = (*_node_index)[v];
 
-          Value rw = (*_node_data)[ni].pot + (*_node_data)[vi].pot -
+          Value rw = _node_pot[ni] + _node_pot[vi] -
             dualScale * _weight[e];
 
           if ((*_blossom_data)[vb].status == EVEN) {
 
             int vt = _tree_set->find(vb);
 
-            typename std::map<int, Arc>::iterator it =
+            typename TreeArcMap<Arc>::iterator it =
               (*_node_data)[ni].heap_index.find(vt);
 
             if (it != (*_node_data)[ni].heap_index.end()) {
