@@ -33,6 +33,7 @@ const double kLnRHi = std::log(500.0);  // ... and 500 ohm at 1000 lx (gamma abo
 struct Best {
   int pairs = 0;
   double total = 0;
+  std::size_t within = 0;  // pairs within tolerance (brute_force only)
 };
 // Exhaustive search over matchings of the graph with err[i][j] >= 0 for pairs within tolerance.
 Best best_matching(const std::vector<std::vector<double>>& err) {
@@ -74,7 +75,10 @@ Best brute_force(const LotFit& fit, const PairOptions& o) {
       const double pct = 100 * std::expm1(ln_e);
       if (pct <= o.tolerance_pct) err[i][j] = err[j][i] = pct;
     }
-  return best_matching(err);
+  Best best = best_matching(err);
+  for (int i = 0; i < n; ++i)
+    for (int j = i + 1; j < n; ++j) best.within += err[i][j] >= 0;
+  return best;
 }
 
 LotFit random_plane_lot(std::mt19937_64& rng, int n, double side_ln) {
@@ -106,6 +110,7 @@ void expect_brute_force_result(const Pairing& p, const LotFit& fit, const PairOp
   EXPECT_NEAR(p.total_error_pct, best.total, p.total_error_rounding_bound_pct + 1e-9)
       << "seed " << seed << " n " << n;
   EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail;
+  EXPECT_EQ(p.counts.tolerance_edges, best.within) << "seed " << seed << " n " << n;
   for (const auto& pr : p.pairs) EXPECT_LE(pr.tracking_error_pct, o.tolerance_pct);
 }
 

@@ -225,6 +225,102 @@ bool for_each_tolerance_edge(const Nodes& nodes, const CellGrid& grid, double to
       stop);
 }
 
+// Each node's `cap` nearest other nodes within tolerance, by (error in percent, node), as
+// lists sorted best first: list v is near[v * cap .. v * cap + count[v]). The search walks
+// rings of cells outward from the node's cell on a grid about as fine as the lot is dense
+// (about two cells a node over the lot's bounding box), so it reads a few cells around each
+// node however many pairs lie within tolerance. A node outside the rings read so far lies
+// more than r cells away on one axis, so its error is at least r cell widths: the walk stops
+// once the list is full and its worst entry is below that, or r cell widths exceed the
+// tolerance. Returns false when stopped.
+bool nearest_within_tolerance(const Nodes& nodes, double tol_ln, double tol_pct, std::size_t cap,
+                              std::vector<std::pair<double, std::uint32_t>>& near,
+                              std::vector<std::uint32_t>& count, const std::stop_token& stop) {
+  const std::size_t n = nodes.size();
+  near.assign(n * cap, {});
+  count.assign(n, 0);
+  if (n < 2 || cap == 0) return true;
+  const auto [x_lo, x_hi] = std::minmax_element(nodes.x.begin(), nodes.x.end());
+  const auto [y_lo, y_hi] = std::minmax_element(nodes.y.begin(), nodes.y.end());
+  const double x0 = *x_lo, y0 = *y_lo, w = *x_hi - x0, h = *y_hi - y0;
+  // Cell width c with (w / c + 1) (h / c + 1) about 2n cells.
+  const double target = 2.0 * double(n);
+  double inv = 0;
+  if (w > 0 && h > 0) {
+    const double a = w * h, b = w + h;
+    inv = (-b + std::sqrt(b * b + 4 * a * (target - 1))) / (2 * a);
+  } else if (w + h > 0) {
+    inv = (target - 1) / (w + h);
+  }
+  double cell = inv > 0 ? 1.0 / inv : std::max(tol_ln, 1e-9);
+  if (!(cell > 0) || !std::isfinite(cell)) cell = std::max(tol_ln, 1e-9);
+  auto index = [&](double v, double origin, std::int64_t cells) {
+    const auto k = static_cast<std::int64_t>(std::floor((v - origin) / cell));
+    return std::clamp<std::int64_t>(k, 0, cells - 1);
+  };
+  const std::int64_t nx = static_cast<std::int64_t>(std::floor(w / cell)) + 1;
+  const std::int64_t ny = static_cast<std::int64_t>(std::floor(h / cell)) + 1;
+  // Nodes by cell, row-major (compressed: start[c] .. start[c + 1]).
+  std::vector<std::uint32_t> cell_of(n), start(std::size_t(nx * ny) + 1, 0), by_cell(n);
+  for (std::uint32_t v = 0; v < n; ++v) {
+    cell_of[v] = static_cast<std::uint32_t>(index(nodes.y[v], y0, ny) * nx + index(nodes.x[v], x0, nx));
+    ++start[cell_of[v] + 1];
+  }
+  for (std::size_t c = 1; c < start.size(); ++c) start[c] += start[c - 1];
+  {
+    std::vector<std::uint32_t> fill(start.begin(), start.end() - 1);
+    for (std::uint32_t v = 0; v < n; ++v) by_cell[fill[cell_of[v]]++] = v;
+  }
+  // Below r cell widths by a margin far above the rounding of the cell indices.
+  auto reach = [&](std::int64_t r) { return double(r) * cell * (1 - 1e-9); };
+  for (std::uint32_t v = 0; v < n; ++v) {
+    if ((v & 1023) == 0 && stop.stop_requested()) return false;
+    auto* list = near.data() + std::size_t(v) * cap;
+    std::uint32_t size = 0;
+    auto visit_cell = [&](std::int64_t cx, std::int64_t cy) {
+      const std::size_t c = std::size_t(cy * nx + cx);
+      for (std::uint32_t k = start[c]; k < start[c + 1]; ++k) {
+        const std::uint32_t u = by_cell[k];
+        if (u == v || nodes.lower_bound_ln(v, u) > tol_ln) continue;
+        const double err = to_pct(nodes.exact_ln(v, u));
+        if (err > tol_pct) continue;
+        const std::pair<double, std::uint32_t> item{err, u};
+        if (size < cap) {
+          list[size++] = item;
+          std::push_heap(list, list + size);
+        } else if (item < list[0]) {
+          std::pop_heap(list, list + cap);
+          list[cap - 1] = item;
+          std::push_heap(list, list + cap);
+        }
+      }
+    };
+    const std::int64_t cx = cell_of[v] % nx, cy = cell_of[v] / nx;
+    const std::int64_t last = std::max({cx, nx - 1 - cx, cy, ny - 1 - cy});
+    for (std::int64_t r = 0; r <= last; ++r) {
+      const std::int64_t xa = std::max<std::int64_t>(cx - r, 0), xb = std::min(cx + r, nx - 1);
+      if (r == 0) {
+        visit_cell(cx, cy);
+      } else {
+        for (std::int64_t yy : {cy - r, cy + r})
+          if (yy >= 0 && yy < ny)
+            for (std::int64_t xx = xa; xx <= xb; ++xx) visit_cell(xx, yy);
+        for (std::int64_t xx : {cx - r, cx + r})
+          if (xx >= 0 && xx < nx)
+            for (std::int64_t yy = std::max<std::int64_t>(cy - r + 1, 0);
+                 yy <= std::min(cy + r - 1, ny - 1); ++yy)
+              visit_cell(xx, yy);
+      }
+      const double bound = reach(r);
+      if (bound > tol_ln) break;
+      if (size == cap && list[0].first < to_pct(bound)) break;
+    }
+    std::sort_heap(list, list + size);
+    count[v] = size;
+  }
+  return true;
+}
+
 // ---------------------------------------------------------------------------------------------
 struct Edge {
   std::uint32_t i, j;  // i < j
@@ -443,6 +539,7 @@ class BlossomForest {
 // the matching's weight, and y_u + y_v + sum z_B (B holding u and v) >= 4 w_uv on every edge
 // within tolerance. Violating edges are returned; `problem` says what else failed.
 struct CheckResult {
+  std::size_t within = 0;  // pairs within tolerance, every one of them checked
   std::vector<Edge> violations;
   std::string problem;
   bool stopped = false;
@@ -488,10 +585,21 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
   // of 1e-3 quanta is far above the rounding of these few operations.
   const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
   const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
+  const double surely_within = tol_ln * (1 - 1e-12);
   const bool ok = grid.for_each_near_pair(
       [&](std::uint32_t a, std::uint32_t b) {
         const double lb = nodes.lower_bound_ln(a, b);
         if (lb > tol_ln) return;
+        // Within tolerance? For two power laws lb is the error itself, and clearly inside the
+        // tolerance needs no expm1; otherwise (and near the limit) the exact error decides.
+        double err = kNaN;
+        if (nodes.work(a, b) == 1 && lb < surely_within) {
+          ++r.within;
+        } else {
+          err = to_pct(nodes.exact_ln(a, b));
+          if (err > o.tolerance_pct) return;
+          ++r.within;
+        }
         const std::uint32_t i = std::min(a, b), j = std::max(a, b);
         const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
         if (nodes_cover >= full_need) return;
@@ -504,8 +612,7 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
               below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
             return;
         }
-        const double err = to_pct(nodes.exact_ln(a, b));
-        if (err > o.tolerance_pct) return;
+        if (std::isnan(err)) err = to_pct(nodes.exact_ln(a, b));
         const std::int64_t c = costing.cost(err);
         const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
         // Blossom values were checked non-negative above, so an edge the two node values
@@ -674,52 +781,43 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   std::vector<Edge> edges;
   std::vector<double> nearest_err(n, kNaN);
   std::vector<std::int64_t> nearest(n, -1);
-  std::vector<std::pair<double, std::uint32_t>> heap(cap > 0 ? n * cap : 0);
-  std::vector<std::uint32_t> heap_size(cap > 0 ? n : 0, 0);
-  auto offer = [&](std::uint32_t v, std::uint32_t other, double err) {
+  auto note_nearest = [&](std::uint32_t v, std::uint32_t other, double err) {
     if (nearest[v] < 0 || err < nearest_err[v] ||
         (err == nearest_err[v] && std::int64_t(other) < nearest[v]))
       nearest[v] = other, nearest_err[v] = err;
-    if (cap == 0) return;
-    auto* h = heap.data() + std::size_t(v) * cap;
-    const std::pair<double, std::uint32_t> item{err, other};
-    if (heap_size[v] < cap) {
-      h[heap_size[v]++] = item;
-      std::push_heap(h, h + heap_size[v]);
-    } else if (item < h[0]) {
-      std::pop_heap(h, h + cap);
-      h[cap - 1] = item;
-      std::push_heap(h, h + cap);
-    }
   };
-  std::size_t tolerance_edges = 0;
-  if (!for_each_tolerance_edge(
-          nodes, grid, tol_ln, o.tolerance_pct,
-          [&](std::uint32_t i, std::uint32_t j, double err) {
-            ++tolerance_edges;
-            offer(i, j, err);
-            offer(j, i, err);
-            if (cap == 0) edges.push_back({i, j, err, costing.cost(err)});
-          },
-          stop))
-    return cancelled();
-  out.counts.tolerance_edges = tolerance_edges;
-  if (cap > 0) {
-    for (std::uint32_t v = 0; v < n; ++v)
-      for (std::uint32_t k = 0; k < heap_size[v]; ++k) {
-        const auto [err, other] = heap[std::size_t(v) * cap + k];
+  if (cap == 0) {
+    // Every pair within tolerance is a candidate.
+    if (!for_each_tolerance_edge(
+            nodes, grid, tol_ln, o.tolerance_pct,
+            [&](std::uint32_t i, std::uint32_t j, double err) {
+              note_nearest(i, j, err);
+              note_nearest(j, i, err);
+              edges.push_back({i, j, err, costing.cost(err)});
+            },
+            stop))
+      return cancelled();
+  } else {
+    std::vector<std::pair<double, std::uint32_t>> near;
+    std::vector<std::uint32_t> count;
+    if (!nearest_within_tolerance(nodes, tol_ln, o.tolerance_pct, cap, near, count, stop))
+      return cancelled();
+    for (std::uint32_t v = 0; v < n; ++v) {
+      const auto* list = near.data() + std::size_t(v) * cap;
+      if (count[v] > 0) note_nearest(v, list[0].second, list[0].first);
+      for (std::uint32_t k = 0; k < count[v]; ++k) {
+        const auto [err, other] = list[k];
         if (v < other) {
           edges.push_back({v, other, err, costing.cost(err)});
         } else {
           // Kept once: by the lower node, unless the lower node's own list dropped it.
-          const auto* h = heap.data() + std::size_t(other) * cap;
+          const auto* h = near.data() + std::size_t(other) * cap;
           const bool kept_by_other =
-              std::find(h, h + heap_size[other], std::pair{err, v}) != h + heap_size[other];
+              std::find(h, h + count[other], std::pair{err, v}) != h + count[other];
           if (!kept_by_other) edges.push_back({other, v, err, costing.cost(err)});
         }
       }
-    heap.clear();
-    heap.shrink_to_fit();
+    }
   }
   report(n);
 
@@ -830,6 +928,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
 
     CheckResult check = check_certificate(nodes, grid, o, tol_ln, costing, sol, edges, stop);
     if (check.stopped) return cancelled();
+    out.counts.tolerance_edges = check.within;
     report(3 * n);
     if (!check.problem.empty()) {
       why_not = check.problem;
@@ -894,7 +993,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     out.proof_detail = fmt::format(
         "dual certificate checked on all {} pairs within tolerance ({} solve round{}{}, {} "
         "edge{} added by the check)",
-        tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s", warm_note,
+        out.counts.tolerance_edges, out.counts.rounds, out.counts.rounds == 1 ? "" : "s", warm_note,
         out.counts.repaired_edges, out.counts.repaired_edges == 1 ? "" : "s");
   } else {
     out.proof = ProofStatus::not_proved;
