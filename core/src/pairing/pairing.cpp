@@ -159,21 +159,32 @@ class CellGrid {
   // Returns false when stopped.
   template <class F>
   bool for_each_near_pair(F&& f, const std::stop_token& stop) const {
+    return for_each_near_slot_pair([&](std::uint32_t p, std::uint32_t q) { f(order_[p], order_[q]); },
+                                   stop);
+  }
+
+  // The same by slots: the nodes' places in the grid's cell order (node_at(slot) is the node),
+  // so that a caller keeping its per-node values in that order reads them nearly in sequence.
+  template <class F>
+  bool for_each_near_slot_pair(F&& f, const std::stop_token& stop) const {
     static constexpr std::int64_t kForward[4][2] = {{0, 1}, {1, -1}, {1, 0}, {1, 1}};
     for (std::size_t c = 0; c < cells_.size(); ++c) {
       if ((c & 1023) == 0 && stop.stop_requested()) return false;
       const Cell& a = cells_[c];
       for (std::uint32_t p = a.begin; p < a.end; ++p)
-        for (std::uint32_t q = p + 1; q < a.end; ++q) f(order_[p], order_[q]);
+        for (std::uint32_t q = p + 1; q < a.end; ++q) f(p, q);
       for (const auto& d : kForward) {
         const Cell* b = find(a.cx + d[0], a.cy + d[1]);
         if (b == nullptr) continue;
         for (std::uint32_t p = a.begin; p < a.end; ++p)
-          for (std::uint32_t q = b->begin; q < b->end; ++q) f(order_[p], order_[q]);
+          for (std::uint32_t q = b->begin; q < b->end; ++q) f(p, q);
       }
     }
     return true;
   }
+
+  std::uint32_t node_at(std::uint32_t slot) const { return order_[slot]; }
+  std::size_t slots() const { return order_.size(); }
 
   // Calls f(w) for every other node w in the cell of `node` or the eight around it.
   template <class F>
@@ -519,9 +530,12 @@ class BlossomForest {
  public:
   explicit BlossomForest(const Solution& sol) : sol_(sol), sums_(sol.next_position, ranges(sol)) {}
 
-  Wide shared_value(std::uint32_t u, std::uint32_t v) const {
-    if (!sol_.has_position[u] || !sol_.has_position[v]) return 0;
-    return sums_.shared(sol_.position[u], sol_.position[v]);
+  static constexpr std::uint64_t kNone = ~std::uint64_t(0);
+  std::uint64_t position_of(std::uint32_t v) const {
+    return sol_.has_position[v] ? sol_.position[v] : kNone;
+  }
+  Wide shared_at(std::uint64_t pu, std::uint64_t pv) const {
+    return pu == kNone || pv == kNone ? Wide(0) : sums_.shared(pu, pv);
   }
 
  private:
@@ -586,14 +600,30 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
   const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
   const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
   const double surely_within = tol_ln * (1 - 1e-12);
-  const bool ok = grid.for_each_near_pair(
-      [&](std::uint32_t a, std::uint32_t b) {
-        const double lb = nodes.lower_bound_ln(a, b);
+  // What the pass reads of every node, in the grid's cell order: most pairs are then read
+  // from nearby memory, not from all over the lot's arrays.
+  const std::size_t slots = grid.slots();
+  std::vector<double> sx(slots), sy(slots);
+  std::vector<std::int64_t> spot(slots);
+  std::vector<char> spower(slots);
+  std::vector<std::uint64_t> sposition(slots);
+  for (std::uint32_t p = 0; p < slots; ++p) {
+    const std::uint32_t v = grid.node_at(p);
+    sposition[p] = forest.position_of(v);
+    sx[p] = nodes.x[v];
+    sy[p] = nodes.y[v];
+    spot[p] = sol.potential[v];
+    spower[p] = nodes.row[v] < 0;
+  }
+  const bool ok = grid.for_each_near_slot_pair(
+      [&](std::uint32_t p, std::uint32_t q) {
+        const double lb = std::max(std::abs(sx[p] - sx[q]), std::abs(sy[p] - sy[q]));
         if (lb > tol_ln) return;
+        const std::uint32_t a = grid.node_at(p), b = grid.node_at(q);
         // Within tolerance? For two power laws lb is the error itself, and clearly inside the
         // tolerance needs no expm1; otherwise (and near the limit) the exact error decides.
         double err = kNaN;
-        if (nodes.work(a, b) == 1 && lb < surely_within) {
+        if (spower[p] && spower[q] && lb < surely_within) {
           ++r.within;
         } else {
           err = to_pct(nodes.exact_ln(a, b));
@@ -601,7 +631,7 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
           ++r.within;
         }
         const std::uint32_t i = std::min(a, b), j = std::max(a, b);
-        const Wide nodes_cover = Wide(sol.potential[i]) + sol.potential[j];
+        const Wide nodes_cover = Wide(spot[p]) + spot[q];
         if (nodes_cover >= full_need) return;
         if (per_quantum > 0 && nodes_cover >= 0) {
           // Covered when 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4).
@@ -618,7 +648,8 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
         // Blossom values were checked non-negative above, so an edge the two node values
         // cover needs no blossom sum.
         if (nodes_cover >= need) return;
-        if (nodes_cover + forest.shared_value(i, j) < need) r.violations.push_back({i, j, err, c});
+        if (nodes_cover + forest.shared_at(sposition[p], sposition[q]) < need)
+          r.violations.push_back({i, j, err, c});
       },
       stop);
   r.stopped = !ok;
