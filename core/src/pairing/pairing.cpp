@@ -592,11 +592,7 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
     r.problem = "the dual objective differs from the matching's weight";
 
   const BlossomForest forest(sol);
-  // Most pairs are covered by their two node values with room to spare, so their exact cost
-  // is often not needed: from x = the plane's lower bound of the ln error (exact for two
-  // power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x), which gives a cost the pair's
-  // cost cannot be under; when even that much cost leaves the pair covered, it is. The margin
-  // of 1e-3 quanta is far above the rounding of these few operations.
+  // Cost steps per unit of expm1(ln error), for the lower bound of a pair's cost below.
   const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
   const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
   const double surely_within = tol_ln * (1 - 1e-12);
@@ -619,37 +615,41 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
       [&](std::uint32_t p, std::uint32_t q) {
         const double lb = std::max(std::abs(sx[p] - sx[q]), std::abs(sy[p] - sy[q]));
         if (lb > tol_ln) return;
-        const std::uint32_t a = grid.node_at(p), b = grid.node_at(q);
         // Within tolerance? For two power laws lb is the error itself, and clearly inside the
         // tolerance needs no expm1; otherwise (and near the limit) the exact error decides.
+        const bool power = spower[p] && spower[q];
+        const std::uint32_t a = grid.node_at(p), b = grid.node_at(q);
+        auto error_pct = [&]() { return to_pct(power ? lb : nodes.exact_ln(a, b)); };
         double err = kNaN;
-        if (spower[p] && spower[q] && lb < surely_within) {
+        if (power && lb < surely_within) {
           ++r.within;
         } else {
-          err = to_pct(nodes.exact_ln(a, b));
+          err = error_pct();
           if (err > o.tolerance_pct) return;
           ++r.within;
         }
-        const std::uint32_t i = std::min(a, b), j = std::max(a, b);
+        // Covered by the node values and the blossom values the two share, even at the least
+        // cost the pair can have? From x = the plane's lower bound of the ln error (exact for
+        // two power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x); covered when
+        // 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4). The margin of 1e-3 quanta
+        // is far above the rounding of these few operations. Only pairs close to tight (the
+        // matched ones among them) need their exact cost.
         const Wide nodes_cover = Wide(spot[p]) + spot[q];
         if (nodes_cover >= full_need) return;
-        if (per_quantum > 0 && nodes_cover >= 0) {
-          // Covered when 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4).
-          const Wide c_needed = Wide(costing.big) - nodes_cover / Matcher::dualScale;
+        const Wide cover = nodes_cover + forest.shared_at(sposition[p], sposition[q]);
+        if (cover >= full_need) return;
+        if (per_quantum > 0 && cover >= 0) {
+          const Wide c_needed = Wide(costing.big) - cover / Matcher::dualScale;
           const double x = lb;
           const double below_expm1 = x * (1 + x * (0.5 + x * (1.0 / 6 + x / 24)));
           if (c_needed <= costing.max_cost &&
               below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
             return;
         }
-        if (std::isnan(err)) err = to_pct(nodes.exact_ln(a, b));
+        if (std::isnan(err)) err = error_pct();
         const std::int64_t c = costing.cost(err);
         const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
-        // Blossom values were checked non-negative above, so an edge the two node values
-        // cover needs no blossom sum.
-        if (nodes_cover >= need) return;
-        if (nodes_cover + forest.shared_at(sposition[p], sposition[q]) < need)
-          r.violations.push_back({i, j, err, c});
+        if (cover < need) r.violations.push_back({std::min(a, b), std::max(a, b), err, c});
       },
       stop);
   r.stopped = !ok;
