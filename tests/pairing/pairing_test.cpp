@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "pairing_support.h"
+#include "test_seams.h"
 
 using photolot::LotFit;
 using photolot::Pairing;
@@ -210,6 +211,42 @@ TEST(Pairing, WarmRepairOnLargerLotsAgreesWithTheColdRepair) {
     warm_rounds += p.counts.warm_rounds;
   }
   EXPECT_GT(warm_rounds, 6u) << "too few lots exercised the warm repair";
+}
+
+TEST(Pairing, AWarmRepairThatGivesUpFallsBackToSolvingFromScratch) {
+  // The fallback path (a warm repair that finds the matching's state other than expected):
+  // a test seam makes the first or second warm repair give up half way, after it has
+  // already changed the matching's state. The result must still be proved optimal and agree
+  // with exhaustive enumeration (small lots) and with the cold repair (larger lots).
+  std::mt19937_64 rng(77);
+  std::size_t fallbacks = 0;
+  for (int seed = 0; seed < 60; ++seed) {
+    const int n = seed < 40 ? 6 + seed % 7 : 200 + 10 * (seed - 40);
+    const LotFit fit = random_plane_lot(rng, n, seed < 40 ? 0.07 : 0.2);
+    PairOptions o;
+    o.mode = seed % 2 ? TrackingMode::trimmable : TrackingMode::absolute;
+    o.tolerance_pct = o.mode == TrackingMode::absolute ? 2.0 : (seed < 40 ? 2.0 : 0.5);
+    o.candidate_cap_per_unit = 1;
+    PairOptions cold = o;
+    cold.warm_repair = false;
+    const Pairing q = photolot::pair_units(fit, cold);
+    photolot::detail::fail_warm_repairs_for_tests = 1 + seed % 2;
+    const Pairing p = photolot::pair_units(fit, o);
+    const int left = photolot::detail::fail_warm_repairs_for_tests.exchange(0);
+    if (q.counts.rounds < 2) continue;  // nothing to repair: the seam never fired
+    ASSERT_TRUE(is_matching(p, fit.units.size()));
+    EXPECT_EQ(p.proof, ProofStatus::proved_optimal) << p.proof_detail << " seed " << seed;
+    EXPECT_EQ(p.pairs.size(), q.pairs.size()) << "seed " << seed;
+    EXPECT_NEAR(p.total_error_pct, q.total_error_pct, 2 * p.total_error_rounding_bound_pct + 1e-9)
+        << "seed " << seed;
+    if (seed < 40) expect_brute_force_result(p, fit, o, seed);
+    if (p.counts.warm_fallbacks > 0) {
+      EXPECT_EQ(p.counts.warm_fallbacks, 1u) << "seed " << seed;
+      EXPECT_LT(left, 1 + seed % 2) << "a fallback without the seam firing, seed " << seed;
+      ++fallbacks;
+    }
+  }
+  EXPECT_GT(fallbacks, 10u) << "too few lots reached the fallback";
 }
 
 TEST(Pairing, HandBuiltStarIsRepairedIntoTwoPairs) {
