@@ -66,7 +66,6 @@
 #include <algorithm>
 #include <iterator>
 #include <limits>
-#include <map>
 #include <set>
 #include <vector>
 
