@@ -86,7 +86,9 @@ QString describe_fit_handling(const LotFit* fit, const FitHandling& handling) {
                .arg(format_number(t.span_c, 3),
                     coefficient_text(t.coefficient_pct_per_c, t.slope_pct_per_c_per_decade));
   } else {
-    temp = tr("not identifiable (the readings span %1 °C)").arg(format_number(t.span_c, 3));
+    temp = t.outcome == TemperatureOutcome::not_sought
+               ? tr("not sought (the run applies a given coefficient instead of fitting one)")
+               : tr("not identifiable (the readings span %1 °C)").arg(format_number(t.span_c, 3));
     if (t.source == "spec") {
       temp += tr("; applied the spec's coefficient, %1; R10 and gamma stated at 25 °C")
                   .arg(coefficient_text(t.coefficient_pct_per_c, t.slope_pct_per_c_per_decade));
@@ -111,10 +113,14 @@ QString brief_fit_handling(const LotFit& fit, const FitHandling& handling) {
   } else if (t.identifiable) {
     temp = tr("temperature fitted, %1 %/°C").arg(format_number(t.coefficient_pct_per_c, 3));
   } else if (t.source == "spec") {
-    temp = tr("temperature not identifiable, spec's %1 %/°C applied")
+    temp = (t.outcome == TemperatureOutcome::not_sought
+                ? tr("temperature not sought, spec's %1 %/°C applied")
+                : tr("temperature not identifiable, spec's %1 %/°C applied"))
                .arg(format_number(t.coefficient_pct_per_c, 3));
   } else {
-    temp = tr("temperature not identifiable, none applied");
+    temp = t.outcome == TemperatureOutcome::not_sought
+               ? tr("temperature not sought, none applied")
+               : tr("temperature not identifiable, none applied");
   }
   const QString bench = handling.model.bench
                             ? tr("bench profile %1")

@@ -124,3 +124,47 @@ TEST(LotFitExtended, GivesTheSameResultsWhateverTheThreadCount) {
 }
 
 }  // namespace
+
+namespace {
+
+TEST(LotTemperature, NamesTheOutcomeOfEachWayOfHandlingIt) {
+  // The same invented lot four ways: readings over 20-30 degC are fitted; handling off and a
+  // run that applies a given coefficient do not look for one (not sought, whatever the
+  // readings); one temperature for every reading cannot show one (not identifiable).
+  using photolot::TemperatureOutcome;
+  using photolot::fitting::TemperatureMode;
+  UnitSim base;
+  base.noise_pct = 0.5;
+  base.temp_c = 25;
+  base.temp_span_c = 10;
+  base.tc10_pct_per_c = 0.4;
+  const Lot spread = simulate_lot(base, 20, 21, nullptr);
+  ExtendedFitOptions ext;
+  const LotFit fitted = photolot::fitting::fit_lot_extended(spread, FitOptions{}, ext);
+  EXPECT_EQ(fitted.temperature.outcome, TemperatureOutcome::fitted) << fitted.temperature.message;
+  EXPECT_TRUE(fitted.temperature.reason.empty());
+
+  ext.temperature = TemperatureMode::off;
+  const LotFit off = photolot::fitting::fit_lot_extended(spread, FitOptions{}, ext);
+  EXPECT_EQ(off.temperature.outcome, TemperatureOutcome::not_sought);
+  EXPECT_NE(off.temperature.reason.find("off"), std::string::npos) << off.temperature.reason;
+
+  ext.temperature = TemperatureMode::apply;
+  ext.spec_tc10_pct_per_c = 0.3;
+  const LotFit applied = photolot::fitting::fit_lot_extended(spread, FitOptions{}, ext);
+  EXPECT_EQ(applied.temperature.outcome, TemperatureOutcome::not_sought);
+  EXPECT_EQ(applied.temperature.source, "spec");
+  EXPECT_EQ(applied.temperature.message.find("not identifiable"), std::string::npos)
+      << applied.temperature.message;
+
+  base.temp_span_c = 0;
+  const Lot flat = simulate_lot(base, 20, 21, nullptr);
+  ext.temperature = TemperatureMode::fit;
+  const LotFit one = photolot::fitting::fit_lot_extended(flat, FitOptions{}, ext);
+  EXPECT_EQ(one.temperature.outcome, TemperatureOutcome::not_identifiable);
+  EXPECT_NE(one.temperature.reason.find("span"), std::string::npos) << one.temperature.reason;
+  EXPECT_EQ(one.temperature.message.find(one.temperature.reason), 18u)
+      << "the message opens with \"not identifiable: \" and the reason";
+}
+
+}  // namespace

@@ -285,6 +285,8 @@ TEST(LotSummaryPdf, SaysWhenTheTemperatureEffectWasNotIdentifiableAndWhatWasAppl
   lot.fit.temperature.identifiable = false;
   lot.fit.temperature.span_c = 0;
   lot.fit.temperature.source = "none";
+  lot.fit.temperature.outcome = photolot::TemperatureOutcome::not_identifiable;
+  lot.fit.temperature.reason = "the readings span 0.00 degC, at least 5 needed";
   lot.fit.temperature.message =
       "not identifiable: the readings span 0.00 degC, at least 5 needed; no coefficient applied";
   const std::string flat = summary_text(lot.input());
@@ -303,6 +305,7 @@ TEST(LotSummaryPdf, PrintsTheFittedCoefficientItsSlopeAndSpanAndThat25DegreesIsT
   for (std::size_t i = 0; i < lot.lot.units.size(); ++i)
     for (auto& r : lot.lot.units[i].readings) r.temp_c = 17.5 + 15.0 * static_cast<double>(i % 2);
   auto& t = lot.fit.temperature;
+  t.outcome = photolot::TemperatureOutcome::fitted;
   t.identifiable = true;
   t.span_c = 15;
   t.coefficient_pct_per_c = -0.41;
@@ -322,6 +325,23 @@ TEST(LotSummaryPdf, PrintsTheFittedCoefficientItsSlopeAndSpanAndThat25DegreesIsT
   const std::string spec_flat = summary_text(lot.input());
   expect_all(spec_flat, {"Coefficient applied the spec's coefficient, -0.300 %/\u00b0C at 10 lx",
                          "R10 and gamma stated at 25 \u00b0C"});
+}
+
+TEST(LotSummaryPdf, SaysTheTemperatureEffectWasNotSoughtWhenTheRunAppliedAGivenCoefficient) {
+  // A run set to apply the spec's coefficient never looks for the lot's own: the summary must
+  // not call it "not identifiable" (the readings were never asked).
+  auto lot = make_judged_lot(20, 17e3, 23e3);
+  auto& t = lot.fit.temperature;
+  t.outcome = photolot::TemperatureOutcome::not_sought;
+  t.reason = "the run applies a given coefficient instead of fitting one";
+  t.source = "spec";
+  t.coefficient_pct_per_c = -0.3;
+  t.slope_pct_per_c_per_decade = 0;
+  const std::string flat = summary_text(lot.input());
+  ASSERT_FALSE(flat.empty());
+  expect_all(flat, {"Temperature effect not sought: the run applies a given coefficient",
+                    "Coefficient applied the spec's coefficient, -0.300 %/\u00b0C at 10 lx"});
+  EXPECT_EQ(flat.find("not identifiable"), std::string::npos) << flat;
 }
 
 TEST(LotSummaryPdf, ListsTheBenchProfilesMeterAccuraciesOrSaysThereWasNone) {

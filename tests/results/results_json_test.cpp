@@ -21,6 +21,9 @@ ResultsDocument sample_document() {
   doc.import_counts = {20, 18, 2, 0, 0, 1, 1};
   doc.fit_method = "power law, huber loss";
   doc.temperature.source = "none";
+  doc.temperature.outcome = TemperatureOutcome::not_identifiable;
+  doc.temperature.reason = "the readings span 0.00 degC, at least 5 needed";
+  doc.temperature.message = "not identifiable: " + doc.temperature.reason + "; none applied";
   doc.with_residuals = true;
 
   UnitFit a;
@@ -206,6 +209,42 @@ TEST(ResultsJson, ReadsBackWhatItWrote) {
   ASSERT_EQ(d.unit_sections.size(), 2u);
   EXPECT_EQ(d.unit_sections[1].at("verdict"), "nonconforming");
   EXPECT_FALSE(d.unit_sections[0].contains("id"));
+  EXPECT_EQ(d.temperature.outcome, TemperatureOutcome::not_identifiable);
+  EXPECT_EQ(d.temperature.reason, "the readings span 0.00 degC, at least 5 needed");
+}
+
+TEST(ResultsJson, ReadsTheTemperatureOutcomeOfADocumentWrittenBeforeItWasAKey) {
+  // Earlier documents said it only in the message's opening words.
+  struct Case {
+    bool identifiable;
+    const char* source;
+    const char* message;
+    TemperatureOutcome outcome;
+    const char* reason;
+  };
+  const Case cases[] = {
+      {true, "fitted", "fitted jointly over 9 units: -0.4 +- 0.02 %/degC at 10 lx",
+       TemperatureOutcome::fitted, ""},
+      {false, "none", "temperature handling off: results are at the bench temperature",
+       TemperatureOutcome::not_sought, "temperature handling was off for this run"},
+      {false, "spec", "not identifiable: the readings span 1.00 degC, at least 5 needed; x",
+       TemperatureOutcome::not_identifiable, "the readings span 1.00 degC, at least 5 needed"},
+      {false, "", "", TemperatureOutcome::not_stated, ""},
+  };
+  for (const Case& c : cases) {
+    ResultsDocument doc = sample_document();
+    doc.temperature = {};
+    doc.temperature.identifiable = c.identifiable;
+    doc.temperature.source = c.source;
+    doc.temperature.message = c.message;
+    Json j = Json::parse(to_json_text(doc));
+    j["fit"]["temperature"].erase("outcome");
+    j["fit"]["temperature"].erase("reason");
+    ReadResult back = from_json_text(j.dump());
+    ASSERT_TRUE(back.ok()) << back.error->message;
+    EXPECT_EQ(back.doc.temperature.outcome, c.outcome) << c.message;
+    EXPECT_EQ(back.doc.temperature.reason, c.reason) << c.message;
+  }
 }
 
 TEST(ResultsJson, EscapesTextAndReplacesInvalidUtf8) {

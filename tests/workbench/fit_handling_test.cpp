@@ -78,6 +78,16 @@ TEST(FitHandling, SaysWhetherTemperatureWasIdentifiedAndWhatWasApplied) {
                                    "applied the spec's coefficient, -0.300 %/°C at 10 lx;")))
       << text.toStdString();
 
+  // A run that applies the spec's coefficient as set never asked the readings.
+  h.model.temperature = fitting::TemperatureMode::apply;
+  fit.temperature.outcome = TemperatureOutcome::not_sought;
+  text = describe_fit_handling(&fit, h);
+  EXPECT_TRUE(text.contains(QStringLiteral("not sought")) && !text.contains("not identifiable"))
+      << text.toStdString();
+  EXPECT_TRUE(brief_fit_handling(fit, h).startsWith(
+      QStringLiteral("temperature not sought, spec's -0.300 %/°C applied")))
+      << brief_fit_handling(fit, h).toStdString();
+
   h.model.temperature = fitting::TemperatureMode::off;
   EXPECT_TRUE(describe_fit_handling(&fit, h).contains(QStringLiteral("<b>Temperature</b>: off")));
   EXPECT_TRUE(brief_fit_handling(fit, h).startsWith(QStringLiteral("temperature off")));

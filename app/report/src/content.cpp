@@ -221,22 +221,22 @@ void add_model_choice(Content& c, const LotFit& fit) {
 
 void add_temperature(Content& c, const Lot& lot, const LotFit& fit) {
   const LotTemperature& t = fit.temperature;
-  const bool off = t.message.rfind("temperature handling off", 0) == 0;
   std::string effect;
-  if (t.source.empty()) {
-    effect = "not stated by the fit";
-  } else if (t.identifiable) {
-    effect = "identifiable: fitted jointly over the lot's readings";
-  } else if (off) {
-    effect = "not sought: temperature handling was off for this run";
-  } else {
-    effect = "not identifiable from these readings";
-    // The fit's reason, between "not identifiable: " and what it then applied.
-    const std::string_view lead = "not identifiable: ";
-    if (t.message.rfind(lead, 0) == 0) {
-      const std::string why = t.message.substr(lead.size(), t.message.find(';') - lead.size());
-      if (!why.empty()) effect += " (" + degrees_in(why) + ")";
-    }
+  switch (t.outcome) {
+    case TemperatureOutcome::not_stated:
+      effect = "not stated by the fit";
+      break;
+    case TemperatureOutcome::fitted:
+      effect = "identifiable: fitted jointly over the lot's readings";
+      break;
+    case TemperatureOutcome::not_sought:
+      effect = "not sought";
+      if (!t.reason.empty()) effect += ": " + t.reason;
+      break;
+    case TemperatureOutcome::not_identifiable:
+      effect = "not identifiable from these readings";
+      if (!t.reason.empty()) effect += " (" + degrees_in(t.reason) + ")";
+      break;
   }
   c.models.push_back({"Temperature effect", effect});
 

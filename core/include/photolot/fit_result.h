@@ -79,8 +79,20 @@ struct UnitFit {
   bool ok() const { return status == FitStatus::fitted; }
 };
 
+// What became of the lot's temperature coefficient in a run.
+enum class TemperatureOutcome {
+  not_stated,        // the fit did not handle temperature (the plain power-law fit)
+  fitted,            // sought and identifiable: fitted jointly over the lot's readings
+  not_identifiable,  // sought, but these readings cannot show it (`reason` says why)
+  not_sought,        // the run did not look for it: handling off, or a given coefficient
+};
+
+std::string_view to_string(TemperatureOutcome outcome);  // "fitted", "not_identifiable", ...
+
 // The lot-level temperature handling (filled by the temperature-aware fit).
 struct LotTemperature {
+  TemperatureOutcome outcome = TemperatureOutcome::not_stated;
+  std::string reason;  // why not identifiable, or why not sought, in a few words (else empty)
   bool identifiable = false;
   double span_c = 0;                       // max - min temperature over the lot's readings
   double coefficient_pct_per_c = kNaN;     // at 10 lx

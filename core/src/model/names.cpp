@@ -43,6 +43,16 @@ std::string_view to_string(FitStatus status) {
   return "?";
 }
 
+std::string_view to_string(TemperatureOutcome outcome) {
+  switch (outcome) {
+    case TemperatureOutcome::not_stated: return "not_stated";
+    case TemperatureOutcome::fitted: return "fitted";
+    case TemperatureOutcome::not_identifiable: return "not_identifiable";
+    case TemperatureOutcome::not_sought: return "not_sought";
+  }
+  return "?";
+}
+
 std::string_view to_string(ColumnRole role) {
   switch (role) {
     case ColumnRole::unit_id: return "unit_id";

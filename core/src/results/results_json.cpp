@@ -24,6 +24,8 @@ Json temperature_to_json(const LotTemperature& t) {
   j["coefficient_pct_per_c"] = number(t.coefficient_pct_per_c);
   j["slope_pct_per_c_per_decade"] = number(t.slope_pct_per_c_per_decade);
   j["source"] = t.source;
+  j["outcome"] = std::string(to_string(t.outcome));
+  j["reason"] = t.reason;
   j["message"] = t.message;
   return j;
 }
@@ -150,6 +152,24 @@ Enum parse_enum(const Reader& r, const std::string& text, const Enum (&values)[N
   for (Enum e : values)
     if (to_string(e) == text) return e;
   throw SchemaError{r.wrong("a known name").message + fmt::format(", not \"{}\"", text)};
+}
+
+// Documents written before `outcome` and `reason` existed said it only in the message's
+// opening words; read them from there.
+void legacy_temperature_outcome(LotTemperature& t) {
+  const std::string_view m = t.message;
+  const std::string_view lead = "not identifiable: ";
+  if (t.identifiable) {
+    t.outcome = TemperatureOutcome::fitted;
+  } else if (m.rfind("temperature handling off", 0) == 0) {
+    t.outcome = TemperatureOutcome::not_sought;
+    t.reason = "temperature handling was off for this run";
+  } else if (m.rfind(lead, 0) == 0) {
+    t.outcome = TemperatureOutcome::not_identifiable;
+    t.reason = std::string(m.substr(lead.size(), m.find(';') - lead.size()));
+  } else if (!t.source.empty()) {
+    t.outcome = TemperatureOutcome::not_sought;
+  }
 }
 
 Curve curve_from_json(const Json& j, const Reader& r) {
@@ -546,6 +566,15 @@ ReadResult from_json(const Json& j) {
     doc.temperature.slope_pct_per_c_per_decade = rt.num(t, "slope_pct_per_c_per_decade");
     doc.temperature.source = rt.str(t, "source");
     doc.temperature.message = rt.str(t, "message");
+    if (t.contains("outcome")) {
+      static constexpr TemperatureOutcome kOutcomes[] = {
+          TemperatureOutcome::not_stated, TemperatureOutcome::fitted,
+          TemperatureOutcome::not_identifiable, TemperatureOutcome::not_sought};
+      doc.temperature.outcome = parse_enum(rt.at("outcome"), rt.str(t, "outcome"), kOutcomes);
+      doc.temperature.reason = rt.str(t, "reason");
+    } else {
+      legacy_temperature_outcome(doc.temperature);
+    }
 
     const Json& units = r.array(j, "units");
     doc.units.reserve(units.size());

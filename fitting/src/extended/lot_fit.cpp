@@ -171,20 +171,24 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
 
   if (ext.temperature == TemperatureMode::off) {
     lt.source = "none";
+    lt.outcome = TemperatureOutcome::not_sought;
+    lt.reason = "temperature handling was off for this run";
     lt.message = "temperature handling off: results are at the bench temperature";
     run_all(ext, "spec", 0, n);
     return out;
   }
   if (ext.temperature == TemperatureMode::apply) {
+    lt.outcome = TemperatureOutcome::not_sought;
+    lt.reason = "the run applies a given coefficient instead of fitting one";
     lt.message = spec_or_none();
     run_all(ext, "spec", 0, n);
     return out;
   }
   if (lt.span_c < ext.min_temp_span_c) {
-    lt.message = fmt::format(
-        "not identifiable: the readings span {:.2f} degC, at least {:g} "
-        "needed; {}",
-        lt.span_c, ext.min_temp_span_c, spec_or_none());
+    lt.outcome = TemperatureOutcome::not_identifiable;
+    lt.reason = fmt::format("the readings span {:.2f} degC, at least {:g} needed", lt.span_c,
+                            ext.min_temp_span_c);
+    lt.message = fmt::format("not identifiable: {}; {}", lt.reason, spec_or_none());
     run_all(ext, "spec", 0, n);
     return out;
   }
@@ -224,6 +228,7 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
   lt.identifiable = !jd.empty() && jr.converged && std::isfinite(jr.tc_sd[0]) &&
                     jr.tc_sd[0] <= ext.max_tc_sd_pct_per_c;
   if (lt.identifiable) {
+    lt.outcome = TemperatureOutcome::fitted;
     lt.source = "fitted";
     lt.coefficient_pct_per_c = jr.tc[0];
     lt.slope_pct_per_c_per_decade = jr.tc[1];
@@ -239,12 +244,13 @@ LotFit fit_lot_extended(const Lot& lot, const FitOptions& options, const Extende
     e.spec_tc_slope_pct_per_c_per_decade = jr.tc[1];
     run_all(e, "lot", n, 2 * n);
   } else {
-    lt.message = jd.empty() ? std::string("not identifiable: no unit could be fitted; ")
-                            : fmt::format(
-                                  "not identifiable: the joint coefficient's standard "
-                                  "error {:.2g} %/degC exceeds {:.2g}; ",
-                                  jr.tc_sd[0], ext.max_tc_sd_pct_per_c);
-    lt.message += spec_or_none();
+    lt.outcome = TemperatureOutcome::not_identifiable;
+    lt.reason = jd.empty() ? std::string("no unit could be fitted")
+                           : fmt::format(
+                                 "the joint coefficient's standard error {:.2g} %/degC "
+                                 "exceeds {:.2g}",
+                                 jr.tc_sd[0], ext.max_tc_sd_pct_per_c);
+    lt.message = "not identifiable: " + lt.reason + "; " + spec_or_none();
     run_all(ext, "spec", n, 2 * n);
   }
   return out;
