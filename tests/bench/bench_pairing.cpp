@@ -66,6 +66,9 @@ void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_
     benchmark::DoNotOptimize(p.pairs.data());
   }
   state.counters["pairs"] = double(p.pairs.size());
+  // The sum of the pairs' errors: with --benchmark_format=json, a fingerprint of the result
+  // for comparing two builds.
+  state.counters["total_error_pct"] = p.total_error_pct;
   state.counters["tolerance_edges"] = double(p.counts.tolerance_edges);
   state.counters["matched_edges"] = double(p.counts.matched_edges);
   state.counters["largest_component"] = double(p.counts.largest_component);

@@ -53,7 +53,10 @@
 // - a record of each blossom's parent, which the read-out and the repair need;
 // - each node's map from tree to arc is a small vector (TreeArcMap) instead of a std::map, and
 //   the node duals sit in one array of their own (_node_pot): the same algorithm and result,
-//   with less memory traffic when a large blossom changes state.
+//   with less memory traffic when a large blossom changes state;
+// - a blossom's change of state reads its nodes' in-arcs from contiguous rows (InArcRow) and
+//   skips the arcs inside the blossom by a mark on its nodes, without a union-find climb
+//   (the same steps in the same order otherwise).
 // docs/pairing.md describes the repair; the caller's certificate check stays the proof.
 #pragma once
 
@@ -234,12 +237,68 @@ class TreeArcMap {
     int _known_edges = 0;
     std::vector<Node> _root_candidates;
 
+    // photolot: each node's incoming arcs in one contiguous row (in the order of the graph's
+    // own in-arc list, so every step is the same), with the source's node index and the
+    // scaled weight beside each arc. A blossom's change of state walks every arc of its
+    // nodes; the graph's linked list made that walk a chain of dependent cache misses.
+    struct InArcRow {
+      int source_index;  // the arc's source, by its index in the node arrays
+      int arc;  // graph id of the arc
+      Value weight;  // dualScale * weight of its edge
+    };
+    std::vector<int> _in_first;  // by node index: where its row starts (one past the end last)
+    std::vector<InArcRow> _in_arcs;
+    std::vector<int> _id_of_index;  // graph id of the node at each index
+    int _in_edges = -1;  // edges the rows hold (-1: to be built)
+
+    void ensureInArcs() {
+      const int edges = _graph.maxEdgeId() + 1;
+      if (edges == _in_edges) return;
+      _in_edges = edges;
+      _id_of_index.assign(_node_num, 0);
+      for (NodeIt n(_graph); n != INVALID; ++n) _id_of_index[(*_node_index)[n]] = _graph.id(n);
+      _in_first.assign(_node_num + 1, 0);
+      _in_arcs.clear();
+      _in_arcs.reserve(2 * std::size_t(edges));
+      for (int i = 0; i < _node_num; ++i) {
+        _in_first[i] = int(_in_arcs.size());
+        for (InArcIt e(_graph, _graph.nodeFromId(_id_of_index[i])); e != INVALID; ++e) {
+          _in_arcs.push_back(
+              {(*_node_index)[_graph.source(e)], _graph.id(e), dualScale * _weight[e]});
+        }
+      }
+      _in_first[_node_num] = int(_in_arcs.size());
+    }
+
+    // photolot: the nodes of the blossom a change of state walks, marked by node index with
+    // the walk's number, so that an arc inside it is told apart without climbing the
+    // union-find (most arcs of a big blossom are inside it).
+    std::vector<unsigned> _walk_stamp;
+    unsigned _walk_id = 0;
+
+    // Marks the nodes of non-trivial `blossom`; true when it has more than one node.
+    bool stampBlossom(int blossom) {
+      if (_blossom_set->trivial(blossom)) return false;
+      if (_walk_stamp.size() != std::size_t(_node_num)) {
+        _walk_stamp.assign(_node_num, 0u);
+        _walk_id = 0;
+      }
+      if (++_walk_id == 0) {
+        std::fill(_walk_stamp.begin(), _walk_stamp.end(), 0u);
+        _walk_id = 1;
+      }
+      for (typename BlossomSet::ItemIt n(*_blossom_set, blossom); n != INVALID; ++n)
+        _walk_stamp[(*_node_index)[n]] = _walk_id;
+      return true;
+    }
+
     void setParent(int cls, int parent) {
       if (cls >= int(_parent.size())) _parent.resize(cls + 1, -1);
       _parent[cls] = parent;
     }
 
     void createStructures() {
+      _in_edges = -1;  // photolot: node indices are assigned afresh
       _node_num = countNodes(_graph);
       _blossom_num = _node_num * 3 / 2;
 
@@ -356,6 +415,8 @@ class TreeArcMap {
           2 * (_delta_sum - (*_blossom_data)[blossom].offset);
       }
 
+      ensureInArcs();
+      const bool nested = stampBlossom(blossom);
       for (typename BlossomSet::ItemIt n(*_blossom_set, blossom);
            n != INVALID; ++n) {
 
@@ -369,13 +430,17 @@ class TreeArcMap {
 
         _delta1->push(n, _node_pot[ni]);
 
-        for (InArcIt e(_graph, n); e != INVALID; ++e) {
-          Node v = _graph.source(e);
+        for (int k = _in_first[ni], k_end = _in_first[ni + 1]; k < k_end; ++k) {
+          const InArcRow& row = _in_arcs[k];
+          int vi = row.source_index;
+          if (nested && _walk_stamp[vi] == _walk_id) {  // inside: even with it, no heap entry
+            continue;
+          }
+          Arc e = _graph.arcFromId(row.arc);
+          Node v = _graph.nodeFromId(_id_of_index[vi]);
           int vb = _blossom_set->find(v);
-          int vi = (*_node_index)[v];
 
-          Value rw = _node_pot[ni] + _node_pot[vi] -
-            dualScale * _weight[e];
+          Value rw = _node_pot[ni] + _node_pot[vi] - row.weight;
 
           if ((*_blossom_data)[vb].status == EVEN) {
             if (_delta3->state(e) != _delta3->IN_HEAP && blossom != vb) {
@@ -432,6 +497,8 @@ class TreeArcMap {
         (*_blossom_data)[blossom].pot += 2 * _delta_sum;
       }
 
+      ensureInArcs();
+      const bool nested = stampBlossom(blossom);
       for (typename BlossomSet::ItemIt n(*_blossom_set, blossom);
            n != INVALID; ++n) {
         int ni = (*_node_index)[n];
@@ -439,13 +506,19 @@ class TreeArcMap {
 
         _delta1->erase(n);
 
-        for (InArcIt e(_graph, n); e != INVALID; ++e) {
-          Node v = _graph.source(e);
+        for (int k = _in_first[ni], k_end = _in_first[ni + 1]; k < k_end; ++k) {
+          const InArcRow& row = _in_arcs[k];
+          int vi = row.source_index;
+          if (nested && _walk_stamp[vi] == _walk_id) {  // inside: no longer a candidate for a shrink
+            Arc e = _graph.arcFromId(row.arc);
+            if (_delta3->state(e) == _delta3->IN_HEAP) _delta3->erase(e);
+            continue;
+          }
+          Arc e = _graph.arcFromId(row.arc);
+          Node v = _graph.nodeFromId(_id_of_index[vi]);
           int vb = _blossom_set->find(v);
-          int vi = (*_node_index)[v];
 
-          Value rw = _node_pot[ni] + _node_pot[vi] -
-            dualScale * _weight[e];
+          Value rw = _node_pot[ni] + _node_pot[vi] - row.weight;
 
           if (vb == blossom) {
             if (_delta3->state(e) == _delta3->IN_HEAP) {
@@ -542,6 +615,8 @@ class TreeArcMap {
           2 * (2 * _delta_sum - (*_blossom_data)[blossom].offset);
       }
 
+      ensureInArcs();
+      const bool nested = stampBlossom(blossom);
       for (typename BlossomSet::ItemIt n(*_blossom_set, blossom);
            n != INVALID; ++n) {
         int ni = (*_node_index)[n];
@@ -555,13 +630,17 @@ class TreeArcMap {
 
         _delta1->push(n, _node_pot[ni]);
 
-        for (InArcIt e(_graph, n); e != INVALID; ++e) {
-          Node v = _graph.source(e);
+        for (int k = _in_first[ni], k_end = _in_first[ni + 1]; k < k_end; ++k) {
+          const InArcRow& row = _in_arcs[k];
+          int vi = row.source_index;
+          if (nested && _walk_stamp[vi] == _walk_id) {  // inside: even with it, no heap entry
+            continue;
+          }
+          Arc e = _graph.arcFromId(row.arc);
+          Node v = _graph.nodeFromId(_id_of_index[vi]);
           int vb = _blossom_set->find(v);
-          int vi = (*_node_index)[v];
 
-          Value rw = _node_pot[ni] + _node_pot[vi] -
-            dualScale * _weight[e];
+          Value rw = _node_pot[ni] + _node_pot[vi] - row.weight;
 
           if ((*_blossom_data)[vb].status == EVEN) {
             if (_delta3->state(e) != _delta3->IN_HEAP && blossom != vb) {
