@@ -54,6 +54,8 @@
 // - each node's map from tree to arc is a small vector (TreeArcMap) instead of a std::map, and
 //   the node duals sit in one array of their own (_node_pot): the same algorithm and result,
 //   with less memory traffic when a large blossom changes state;
+// - the read-out finds the sub-blossom holding a base from notes left by the climb one level
+//   up, not by a climb from the node each time;
 // - a blossom's change of state reads its nodes' in-arcs from contiguous rows (InArcRow) and
 //   skips the arcs inside the blossom by a mark on its nodes, without a union-find climb
 //   (the same steps in the same order otherwise).
@@ -1026,10 +1028,34 @@ class TreeArcMap {
     // node's value is its stored value less its top blossom's offset, a top blossom's value is
     // its stored value plus twice its offset, and a nested blossom's is its stored value.
 
-    // The sub-blossom of `blossom` that holds `node`.
-    int childHolding(int blossom, const Node& node) const {
-      int c = _leaf[(*_node_index)[node]];
-      while (c >= 0 && _parent[c] != blossom) c = _parent[c];
+    // The sub-blossom of `blossom` that holds `node`. The climb from the node's one-node class
+    // notes, for each blossom on the way, its child toward the node, so that the read-out's
+    // next question about the same node (one level further in) needs no climb: without the
+    // note an onion of nested blossoms cost a climb as deep as the nest at every level, which
+    // grew as the square of the lot.
+    std::vector<int> _down, _down_node;  // by class: child toward node _down_node (-1: none)
+
+    int childHolding(int blossom, const Node& node) {
+      const int ni = (*_node_index)[node];
+      if (blossom < int(_down.size()) && _down_node[blossom] == ni) return _down[blossom];
+      const std::size_t classes = std::max(_parent.size(), std::size_t(_blossom_num));
+      if (_down.size() < classes) {
+        _down.resize(classes, -1);
+        _down_node.resize(classes, -1);
+      }
+      int c = _leaf[ni];
+      while (c >= 0 && _parent[c] != blossom) {
+        const int p = _parent[c];
+        if (p >= 0) {
+          _down[p] = c;
+          _down_node[p] = ni;
+        }
+        c = p;
+      }
+      if (blossom >= 0) {
+        _down[blossom] = c;
+        _down_node[blossom] = ni;
+      }
       return c;
     }
 
@@ -1073,6 +1099,7 @@ class TreeArcMap {
     void extractMatching() {
       _blossom_node_list.clear();
       _blossom_potential.clear();
+      std::fill(_down_node.begin(), _down_node.end(), -1);  // notes of an earlier read-out
       std::vector<int> blossoms;
       for (typename BlossomSet::ClassIt c(*_blossom_set); c != INVALID; ++c) {
         blossoms.push_back(c);
