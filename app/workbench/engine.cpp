@@ -3,7 +3,9 @@
 #include <fmt/format.h>
 
 #include <QCryptographicHash>
-#include <QFile>
+
+#include "photolot/import.h"
+#include "photolot/read_file.h"
 
 namespace photolot::workbench {
 
@@ -15,14 +17,20 @@ std::string sha256_hex(const std::string& bytes) {
 }
 
 std::pair<SourceFile, std::string> read_source_file(const std::string& path, bool hash) {
-  QFile file(QString::fromStdString(path));
-  if (!file.open(QIODevice::ReadOnly)) {
-    return {{}, fmt::format("cannot read '{}': {}", path, file.errorString().toStdString())};
+  // A regular file only (a pipe would wait for a writer), within the import's limit.
+  FileRead read = read_regular_file(path, kMaxLogFileBytes);
+  if (!read.ok()) {
+    const std::string why =
+        read.problem == ReadProblem::too_large
+            ? fmt::format("is {} MiB, over the {} MiB a bench log may have; split it into "
+                          "several files",
+                          read.size >> 20, kMaxLogFileBytes >> 20)
+            : describe(read);
+    return {{}, fmt::format("cannot read '{}': {}", path, why)};
   }
-  const QByteArray bytes = file.readAll();
   SourceFile source;
   source.path = path;
-  source.content.assign(bytes.constData(), static_cast<std::size_t>(bytes.size()));
+  source.content = std::move(read.text);
   if (hash) source.sha256_hex = sha256_hex(source.content);
   return {std::move(source), {}};
 }

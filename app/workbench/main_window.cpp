@@ -47,6 +47,7 @@
 #include "help_text.h"
 #include "import_dialog.h"
 #include "pairs_view.h"
+#include "photolot/read_file.h"
 #include "photolot/results.h"
 #include "source_check_dialog.h"
 #include "spec_toml.h"
@@ -1105,13 +1106,15 @@ void MainWindow::openSpec() {
 }
 
 bool MainWindow::openSpecFile(const QString& path) {
-  QFile file(path);
-  if (!file.open(QIODevice::ReadOnly)) {
+  // Read as the command line reads it: a regular file only (never a pipe), within the limit.
+  FileRead read = read_regular_file(path.toStdString(), kMaxSpecFileBytes);
+  if (!read.ok()) {
     QMessageBox::critical(this, tr("Open spec"),
-                          tr("cannot read '%1': %2").arg(path, file.errorString()));
+                          tr("cannot read '%1': %2")
+                              .arg(path, QString::fromStdString(describe(read))));
     return false;
   }
-  const std::string text = file.readAll().toStdString();
+  const std::string text = std::move(read.text);
   SpecLoadResult loaded = parse_spec(text, path.toStdString());
   if (!loaded.ok()) {
     QStringList lines;

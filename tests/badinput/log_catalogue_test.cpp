@@ -237,6 +237,16 @@ TEST(BadLog, L32FolderGivenForAFileIsRefused) {
   expect_refused(r, good.parent_path().string(), "folder");
 }
 
+TEST(BadLog, L36PipeGivenForAFileIsRefusedAtOnce) {
+  // A named pipe (mkfifo) in place of a log: refused without waiting for a writer.
+  const auto good = write_scratch_file("good.csv", kGoodLog);
+  const auto pipe = good.parent_path() / "pipe.csv";
+  std::filesystem::remove(pipe);  // from an earlier run
+  ASSERT_EQ(::mkfifo(pipe.c_str(), 0600), 0);
+  const auto r = import_files({good.string(), pipe.string()});
+  expect_refused(r, "pipe.csv", "not a regular file (a device or a pipe)");
+}
+
 TEST(BadLog, L33HeaderRepeatedMidFileIsSkipped) {
   const auto r =
       import_beside_good("joined.csv", std::string(kHead) + "A1,10,4700\n" + kHead + "A1,1,9000\n");

@@ -133,6 +133,13 @@ TEST(BadSpec, S15MissingFileIsNamed) {
   expect_refused(load_spec((dir / "spec.toml").string()), "cannot open", 0);
 }
 
+TEST(BadSpec, S17PipeGivenAsTheSpecIsRefusedAtOnce) {
+  const auto pipe = scratch_dir() / "spec.toml";
+  std::filesystem::remove(pipe);  // from an earlier run
+  ASSERT_EQ(::mkfifo(pipe.c_str(), 0600), 0);
+  expect_refused(load_spec(pipe.string()), "not a regular file (a device or a pipe)", 0);
+}
+
 TEST(BadSpec, S16WrongTypeIsRefusedNamingTheTypeFound) {
   expect_refused(load(with_limit("dark_min_ohm = true")), "found a boolean", 6);
 }

@@ -168,6 +168,10 @@ TEST(BadWorkspace, W18AFileOverOneGibibyteIsRefusedUnread) {
 TEST(BadWorkspace, W19AFolderOrDeviceGivenAsTheWorkspaceIsRefusedUnread) {
   expect_refused(workspace::load("/dev/zero"), "is not a file (a folder, device or pipe)");
   expect_refused(workspace::load(scratch_dir()), "is not a file (a folder, device or pipe)");
+  const fs::path pipe = scratch_dir() / "lot.photolot";
+  fs::remove(pipe);  // from an earlier run
+  ASSERT_EQ(::mkfifo(pipe.c_str(), 0600), 0);
+  expect_refused(workspace::load(pipe), "is not a file (a folder, device or pipe)");
 }
 
 TEST(BadWorkspace, W20AnUnknownLossIsRefused) {

@@ -1,5 +1,6 @@
 // Bench profile: validation, the uncertainty formulas (bench_profile.h) and the TOML loader.
 #include "photolot/bench_profile.h"
+#include "photolot/read_file.h"
 
 #include <fmt/format.h>
 #include <toml++/toml.h>
@@ -156,15 +157,15 @@ BenchProfileResult parse_bench_profile(std::string_view name, std::string_view t
 }
 
 BenchProfileResult load_bench_profile(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    BenchProfileResult r;
-    r.error = FileError{path, 0, 0, "cannot open the bench profile for reading"};
-    return r;
-  }
-  std::ostringstream text;
-  text << in.rdbuf();
-  return parse_bench_profile(path, text.str());
+  // A bench profile is a few lines; a megabyte is not one.
+  FileRead read = read_regular_file(path, std::uint64_t{1} << 20);
+  if (read.ok()) return parse_bench_profile(path, read.text);
+  BenchProfileResult r;
+  r.error = FileError{path, 0, 0,
+                      read.problem == ReadProblem::missing || read.problem == ReadProblem::unreadable
+                          ? std::string("cannot open the bench profile for reading")
+                          : "the bench profile " + describe(read)};
+  return r;
 }
 
 }  // namespace photolot

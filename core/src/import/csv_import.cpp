@@ -52,6 +52,7 @@
 #include "columns.h"
 #include "csv_reader.h"
 #include "photolot/import.h"
+#include "photolot/read_file.h"
 #include "photolot/units.h"
 
 namespace photolot {
@@ -1013,30 +1014,22 @@ ImportResult import_files(const std::vector<std::string>& paths, const ImportOpt
   ImportResult result;
   std::string content;
   for (const auto& path : paths) {
-    std::error_code ec;
-    const auto status = std::filesystem::status(path, ec);
     std::optional<std::string> problem;
-    if (ec || !std::filesystem::exists(status)) {
-      problem = "no such file";
-    } else if (std::filesystem::is_directory(status)) {
-      problem = "is a folder, not a file";
-    } else {
-      std::ifstream in(path, std::ios::binary);
-      if (!in) {
-        problem = "cannot be opened for reading";
-      } else {
-        in.seekg(0, std::ios::end);
-        const auto size = in.tellg();
-        in.seekg(0, std::ios::beg);
-        if (size > 0 && static_cast<std::uint64_t>(size) > kMaxLogFileBytes) {
-          problem = fmt::format(
-              "is {} MiB, over the {} MiB a bench log may have; split it into several files",
-              static_cast<std::uint64_t>(size) >> 20, kMaxLogFileBytes >> 20);
-        } else {
-          content.resize(size > 0 ? static_cast<std::size_t>(size) : 0);
-          if (size > 0 && !in.read(content.data(), size)) problem = "could not be read";
-        }
-      }
+    FileRead read = read_regular_file(path, kMaxLogFileBytes);
+    switch (read.problem) {
+      case ReadProblem::none:
+        content = std::move(read.text);
+        break;
+      case ReadProblem::too_large:
+        problem = fmt::format(
+            "is {} MiB, over the {} MiB a bench log may have; split it into several files",
+            read.size >> 20, kMaxLogFileBytes >> 20);
+        break;
+      case ReadProblem::read_error:
+        problem = "could not be read";
+        break;
+      default:
+        problem = describe(read);
     }
     if (problem) {
       FileError e{path, 0, 0, *problem};

@@ -4,8 +4,8 @@
 // IETF draft "The FNV Non-Cryptographic Hash Algorithm"). A fingerprint, not a security hash.
 #include <fmt/format.h>
 
-#include <fstream>
-
+#include "photolot/import.h"
+#include "photolot/read_file.h"
 #include "photolot/results.h"
 
 namespace photolot::results {
@@ -22,13 +22,10 @@ std::uint64_t fnv1a64(std::string_view bytes) {
 std::string fnv1a64_hex(std::string_view bytes) { return fmt::format("{:016x}", fnv1a64(bytes)); }
 
 std::optional<InputFile> describe_file(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) return std::nullopt;
-  std::string content;
-  char block[1 << 16];
-  while (in.read(block, sizeof block) || in.gcount() > 0) content.append(block, in.gcount());
-  if (in.bad()) return std::nullopt;
-  return InputFile{path, content.size(), fnv1a64_hex(content)};
+  // The files described are the bench logs just imported: within the import's limit.
+  const FileRead read = read_regular_file(path, kMaxLogFileBytes);
+  if (!read.ok()) return std::nullopt;
+  return InputFile{path, read.text.size(), fnv1a64_hex(read.text)};
 }
 
 }  // namespace photolot::results

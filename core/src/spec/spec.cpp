@@ -26,6 +26,7 @@
 #include <sstream>
 
 #include "photolot/acceptance.h"
+#include "photolot/read_file.h"
 #include "photolot/units.h"
 
 namespace photolot {
@@ -422,26 +423,20 @@ SpecLoadResult parse_spec(std::string_view content, std::string_view name) {
 }
 
 SpecLoadResult load_spec(const std::string& path) {
-  std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    SpecLoadResult result;
-    result.errors.push_back({path, 0, 0, "cannot open the spec file"});
-    return result;
-  }
-  in.seekg(0, std::ios::end);
-  const auto size = in.tellg();
-  in.seekg(0, std::ios::beg);
-  if (size > 0 && static_cast<std::uint64_t>(size) > kMaxSpecFileBytes) {
-    SpecLoadResult result;
+  FileRead read = read_regular_file(path, kMaxSpecFileBytes);
+  if (read.ok()) return parse_spec(read.text, path);
+  SpecLoadResult result;
+  if (read.problem == ReadProblem::too_large) {
     result.errors.push_back(
         {path, 0, 0,
          fmt::format("the spec file is {} bytes, over the {} a spec may have: not a spec file?",
-                     static_cast<std::uint64_t>(size), kMaxSpecFileBytes)});
-    return result;
+                     read.size, kMaxSpecFileBytes)});
+  } else if (read.problem == ReadProblem::missing || read.problem == ReadProblem::unreadable) {
+    result.errors.push_back({path, 0, 0, "cannot open the spec file"});
+  } else {
+    result.errors.push_back({path, 0, 0, "the spec file " + describe(read)});
   }
-  std::ostringstream content;
-  content << in.rdbuf();
-  return parse_spec(content.str(), path);
+  return result;
 }
 
 nlohmann::json spec_json(const Spec& spec) {

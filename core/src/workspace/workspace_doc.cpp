@@ -12,6 +12,7 @@
 #include <utility>
 
 #include "../io/json_text.h"
+#include "photolot/read_file.h"
 
 namespace photolot::workspace {
 namespace {
@@ -297,39 +298,31 @@ ParseResult parse(std::string_view text, const fs::path& folder_in) {
 
 ParseResult load(const fs::path& file) {
   ParseResult result;
-  std::error_code ec;
-  const fs::file_status status = fs::status(file, ec);
-  if (ec || !fs::exists(status)) {
-    result.error = Error{0, 0, "", "cannot read: no such file"};
-    return result;
+  FileRead read = read_regular_file(file.string(), kMaxFileBytes);
+  switch (read.problem) {
+    case ReadProblem::none:
+      break;
+    case ReadProblem::missing:
+      result.error = Error{0, 0, "", "cannot read: no such file"};
+      return result;
+    case ReadProblem::folder:
+    case ReadProblem::not_regular:
+      result.error = Error{0, 0, "", "is not a file (a folder, device or pipe); nothing was read"};
+      return result;
+    case ReadProblem::too_large:
+      result.error = Error{0, 0, "",
+                           fmt::format("is {} bytes; a workspace over {} bytes is refused "
+                                       "unread",
+                                       read.size, kMaxFileBytes)};
+      return result;
+    case ReadProblem::unreadable:
+      result.error = Error{0, 0, "", "cannot read: permission denied or unreadable"};
+      return result;
+    case ReadProblem::read_error:
+      result.error = Error{0, 0, "", "cannot read: a read error"};
+      return result;
   }
-  if (!fs::is_regular_file(status)) {
-    result.error = Error{0, 0, "", "is not a file (a folder, device or pipe); nothing was read"};
-    return result;
-  }
-  const std::uint64_t size = fs::file_size(file, ec);
-  if (!ec && size > kMaxFileBytes) {
-    result.error = Error{0, 0, "",
-                         fmt::format("is {} bytes; a workspace over {} bytes is refused "
-                                     "unread",
-                                     size, kMaxFileBytes)};
-    return result;
-  }
-  std::ifstream in(file, std::ios::binary);
-  if (!in) {
-    result.error = Error{0, 0, "", "cannot read: permission denied or unreadable"};
-    return result;
-  }
-  std::string text;
-  char block[1 << 16];
-  while (in.read(block, sizeof block) || in.gcount() > 0) {
-    text.append(block, static_cast<std::size_t>(in.gcount()));
-    if (text.size() > kMaxFileBytes) break;  // grew while being read
-  }
-  if (in.bad()) {
-    result.error = Error{0, 0, "", "cannot read: a read error"};
-    return result;
-  }
+  const std::string& text = read.text;
   fs::path folder = file.parent_path();
   if (folder.empty()) folder = ".";
   return parse(text, folder);
