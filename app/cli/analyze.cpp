@@ -143,7 +143,12 @@ int run_analyze(AnalyzeConfig& config) {
     return kExitUsageError;
   }
 
-  ImportResult imported = import_files(config.files, config.import.options);
+  // The results document fingerprints the bytes imported, not a second read of the files.
+  std::vector<results::InputFile> read_files;
+  ImportResult imported = import_files(
+      config.files, config.import.options, [&](const std::string& path, std::string_view content) {
+        read_files.push_back(results::describe_content(path, content));
+      });
   if (!imported.ok()) {
     for (const auto& e : imported.errors)
       print_err(diagnostic_line(e.file, e.line, e.column, "error", e.message));
@@ -161,9 +166,7 @@ int run_analyze(AnalyzeConfig& config) {
 
   results::ResultsDocument doc = results::make_document(lot, fit);
   doc.with_residuals = config.with_residuals;
-  for (const auto& path : config.files) {
-    if (auto f = results::describe_file(path)) doc.files.push_back(*f);
-  }
+  doc.files = std::move(read_files);
   doc.options["import"] = import_options_json(config.import.options);
   doc.options["fit"] = fit_options_json(config.fit);
   doc.options["model"] = model_options_json(config.model);

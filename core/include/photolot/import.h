@@ -7,6 +7,7 @@
 #pragma once
 
 #include <cstdint>
+#include <functional>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -81,8 +82,12 @@ struct ImportResult {
 inline constexpr std::uint64_t kMaxLogFileBytes = std::uint64_t{256} << 20;
 
 // Import several files as one lot. Units in several files merge; exact duplicate rows are
-// dropped, conflicting ones reported.
-ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options = {});
+// dropped, conflicting ones reported. `on_read`, when given, is called with each file's path
+// and the bytes read from it (files that could not be read are not passed), before they are
+// parsed: for a fingerprint of exactly what was imported.
+using OnFileRead = std::function<void(const std::string& path, std::string_view content)>;
+ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options = {},
+                          const OnFileRead& on_read = {});
 
 // Import from memory (tests, fuzzing, the workbench's re-import); `name` stands in for the path.
 ImportResult import_buffers(const std::vector<std::pair<std::string, std::string>>& named_contents,

@@ -38,8 +38,9 @@ struct InputFile {
   std::string fnv1a64;  // fnv1a64_hex of the content
 };
 
-// Describes a file on disk (size and hash); nullopt when it cannot be read.
-std::optional<InputFile> describe_file(const std::string& path);
+// Describes a file by the bytes read from it (size and hash). Give it the bytes the lot was
+// imported from (import_files' on_read), so the fingerprint is of what was read.
+InputFile describe_content(const std::string& path, std::string_view content);
 
 struct ResultsDocument {
   std::string generator = "photolot " PHOTOLOT_VERSION;

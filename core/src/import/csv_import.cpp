@@ -1008,7 +1008,8 @@ ImportResult import_buffers(const std::vector<std::pair<std::string, std::string
   return builder.finish(std::move(result));
 }
 
-ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options) {
+ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options,
+                          const OnFileRead& on_read) {
   if (!options.validate().empty()) return options_error(options);
   Builder builder(options);
   ImportResult result;
@@ -1041,6 +1042,7 @@ ImportResult import_files(const std::vector<std::string>& paths, const ImportOpt
       builder.add_missing(path);
       continue;
     }
+    if (on_read) on_read(path, content);
     builder.add(path, content, result);
   }
   return builder.finish(std::move(result));

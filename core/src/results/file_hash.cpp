@@ -4,8 +4,6 @@
 // IETF draft "The FNV Non-Cryptographic Hash Algorithm"). A fingerprint, not a security hash.
 #include <fmt/format.h>
 
-#include "photolot/import.h"
-#include "photolot/read_file.h"
 #include "photolot/results.h"
 
 namespace photolot::results {
@@ -21,11 +19,8 @@ std::uint64_t fnv1a64(std::string_view bytes) {
 
 std::string fnv1a64_hex(std::string_view bytes) { return fmt::format("{:016x}", fnv1a64(bytes)); }
 
-std::optional<InputFile> describe_file(const std::string& path) {
-  // The files described are the bench logs just imported: within the import's limit.
-  const FileRead read = read_regular_file(path, kMaxLogFileBytes);
-  if (!read.ok()) return std::nullopt;
-  return InputFile{path, read.text.size(), fnv1a64_hex(read.text)};
+InputFile describe_content(const std::string& path, std::string_view content) {
+  return InputFile{path, content.size(), fnv1a64_hex(content)};
 }
 
 }  // namespace photolot::results
