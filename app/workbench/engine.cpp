@@ -19,15 +19,7 @@ std::string sha256_hex(const std::string& bytes) {
 std::pair<SourceFile, std::string> read_source_file(const std::string& path, bool hash) {
   // A regular file only (a pipe would wait for a writer), within the import's limit.
   FileRead read = read_regular_file(path, kMaxLogFileBytes);
-  if (!read.ok()) {
-    const std::string why =
-        read.problem == ReadProblem::too_large
-            ? fmt::format("is {} MiB, over the {} MiB a bench log may have; split it into "
-                          "several files",
-                          read.size >> 20, kMaxLogFileBytes >> 20)
-            : describe(read);
-    return {{}, fmt::format("cannot read '{}': {}", path, why)};
-  }
+  if (!read.ok()) return {{}, fmt::format("cannot read '{}': {}", path, describe_log_read(read))};
   SourceFile source;
   source.path = path;
   source.content = std::move(read.text);

@@ -81,6 +81,12 @@ struct ImportResult {
 // memory; split a larger log into several files of one lot.
 inline constexpr std::uint64_t kMaxLogFileBytes = std::uint64_t{256} << 20;
 
+struct FileRead;
+// Words for a bench log that read_regular_file (read_file.h) could not read, to follow its
+// name: "no such file", "is 1024 MiB, over the 256 MiB a bench log may have; ...". The import
+// and the workbench's own reads say the same.
+std::string describe_log_read(const FileRead& read);
+
 // Import several files as one lot. Units in several files merge; exact duplicate rows are
 // dropped, conflicting ones reported. `on_read`, when given, is called with each file's path
 // and the bytes read from it (files that could not be read are not passed), before they are

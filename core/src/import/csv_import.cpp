@@ -1008,32 +1008,21 @@ ImportResult import_buffers(const std::vector<std::pair<std::string, std::string
   return builder.finish(std::move(result));
 }
 
+std::string describe_log_read(const FileRead& read) {
+  if (read.problem != ReadProblem::too_large) return describe(read);
+  return fmt::format("is {} MiB, over the {} MiB a bench log may have; split it into several files",
+                     read.size >> 20, kMaxLogFileBytes >> 20);
+}
+
 ImportResult import_files(const std::vector<std::string>& paths, const ImportOptions& options,
                           const OnFileRead& on_read) {
   if (!options.validate().empty()) return options_error(options);
   Builder builder(options);
   ImportResult result;
-  std::string content;
   for (const auto& path : paths) {
-    std::optional<std::string> problem;
     FileRead read = read_regular_file(path, kMaxLogFileBytes);
-    switch (read.problem) {
-      case ReadProblem::none:
-        content = std::move(read.text);
-        break;
-      case ReadProblem::too_large:
-        problem = fmt::format(
-            "is {} MiB, over the {} MiB a bench log may have; split it into several files",
-            read.size >> 20, kMaxLogFileBytes >> 20);
-        break;
-      case ReadProblem::read_error:
-        problem = "could not be read";
-        break;
-      default:
-        problem = describe(read);
-    }
-    if (problem) {
-      FileError e{path, 0, 0, *problem};
+    if (!read.ok()) {
+      FileError e{path, 0, 0, describe_log_read(read)};
       result.errors.push_back(e);
       FileLayout layout;
       layout.file = path;
@@ -1042,8 +1031,8 @@ ImportResult import_files(const std::vector<std::string>& paths, const ImportOpt
       builder.add_missing(path);
       continue;
     }
-    if (on_read) on_read(path, content);
-    builder.add(path, content, result);
+    if (on_read) on_read(path, read.text);
+    builder.add(path, read.text, result);
   }
   return builder.finish(std::move(result));
 }

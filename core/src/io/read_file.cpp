@@ -98,7 +98,7 @@ std::string describe(const FileRead& read) {
       return "is not a regular file (a device or a pipe); nothing was read";
     case ReadProblem::unreadable: return "cannot be opened for reading";
     case ReadProblem::too_large: return fmt::format("is {} bytes, over the limit", read.size);
-    case ReadProblem::read_error: return "could not be read (a read error)";
+    case ReadProblem::read_error: return "could not be read";
   }
   return "?";
 }
