@@ -52,7 +52,7 @@ double peak_rss_mb() {
 
 void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct,
          int cap = photolot::PairOptions{}.candidate_cap_per_unit, bool spatial_order = true,
-         bool warm_repair = true) {
+         bool warm_repair = true, int threads = 0) {
   const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
   photolot::PairOptions o;
   o.mode = mode;
@@ -60,6 +60,7 @@ void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_
   o.candidate_cap_per_unit = cap;
   o.spatial_order = spatial_order;
   o.warm_repair = warm_repair;
+  o.threads = threads;
   photolot::Pairing p;
   for (auto _ : state) {
     p = photolot::pair_units(fit, o);
@@ -103,6 +104,13 @@ void BM_PairAbsolute2pctCold(benchmark::State& state) {
 // The candidate cap's trade-off: a smaller first graph against more repair.
 void BM_PairAbsolute2pctCap(benchmark::State& state) {
   run(state, photolot::TrackingMode::absolute, 2.0, static_cast<int>(state.range(1)));
+}
+
+// The candidate search and the certificate check on 1 or 2 threads (wall time: the matching
+// itself stays on one).
+void BM_PairThreads(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
+      true, true, static_cast<int>(state.range(1)));
 }
 
 }  // namespace
@@ -160,5 +168,13 @@ BENCHMARK(BM_PairAbsolute2pctCap)
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->MeasureProcessCPUTime();
+
+BENCHMARK(BM_PairThreads)
+    ->ArgsProduct({{10000, 100000}, {1, 2, 1, 2}})
+    ->Args({316228, 1})
+    ->Args({316228, 2})
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->UseRealTime();
 
 BENCHMARK_MAIN();

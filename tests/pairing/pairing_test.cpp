@@ -213,6 +213,49 @@ TEST(Pairing, WarmRepairOnLargerLotsAgreesWithTheColdRepair) {
   EXPECT_GT(warm_rounds, 6u) << "too few lots exercised the warm repair";
 }
 
+TEST(Pairing, GivesTheSameResultOnAnyNumberOfThreads) {
+  // The candidate search and the certificate check share their passes among threads; every
+  // other test here runs them on one per core, against brute force, networkx and the cold
+  // repair. Here the same lot on 1, 2, 3 and 5 threads must give the same result to the last
+  // bit: pairs, errors, reasons, counts and the proof's wording. One candidate per unit makes
+  // many violated pairs, so the check's findings from several ranges are merged each round.
+  std::mt19937_64 rng(4242);
+  for (int seed = 0; seed < 4; ++seed) {
+    const int n = 500 + 500 * seed;
+    const LotFit fit = random_plane_lot(rng, n, 0.3);
+    PairOptions o;
+    o.mode = seed % 2 ? TrackingMode::trimmable : TrackingMode::absolute;
+    o.tolerance_pct = o.mode == TrackingMode::absolute ? 2.0 : 0.5;
+    o.candidate_cap_per_unit = 1;
+    o.threads = 1;
+    const Pairing one = photolot::pair_units(fit, o);
+    ASSERT_EQ(one.proof, ProofStatus::proved_optimal) << one.proof_detail;
+    EXPECT_GT(one.counts.repaired_edges, 0u) << "seed " << seed << ": no repair to merge";
+    for (int threads : {2, 3, 5}) {
+      o.threads = threads;
+      const Pairing p = photolot::pair_units(fit, o);
+      SCOPED_TRACE("seed " + std::to_string(seed) + ", " + std::to_string(threads) + " threads");
+      ASSERT_EQ(p.pairs.size(), one.pairs.size());
+      for (std::size_t k = 0; k < p.pairs.size(); ++k) {
+        EXPECT_EQ(p.pairs[k].a, one.pairs[k].a);
+        EXPECT_EQ(p.pairs[k].b, one.pairs[k].b);
+        EXPECT_EQ(p.pairs[k].tracking_error_pct, one.pairs[k].tracking_error_pct);
+      }
+      ASSERT_EQ(p.unpaired.size(), one.unpaired.size());
+      for (std::size_t k = 0; k < p.unpaired.size(); ++k) {
+        EXPECT_EQ(p.unpaired[k].index, one.unpaired[k].index);
+        EXPECT_EQ(p.unpaired[k].reason, one.unpaired[k].reason);
+      }
+      EXPECT_EQ(p.total_error_pct, one.total_error_pct);
+      EXPECT_EQ(p.counts.tolerance_edges, one.counts.tolerance_edges);
+      EXPECT_EQ(p.counts.repaired_edges, one.counts.repaired_edges);
+      EXPECT_EQ(p.counts.rounds, one.counts.rounds);
+      EXPECT_EQ(p.counts.matched_edges, one.counts.matched_edges);
+      EXPECT_EQ(p.proof_detail, one.proof_detail);
+    }
+  }
+}
+
 TEST(Pairing, AWarmRepairThatGivesUpFallsBackToSolvingFromScratch) {
   // The fallback path (a warm repair that finds the matching's state other than expected):
   // a test seam makes the first or second warm repair give up half way, after it has
@@ -516,6 +559,9 @@ TEST(PairOptions, ValidateNamesTheFieldTheValueAndTheRule) {
   o = {};
   o.candidate_cap_per_unit = -3;
   EXPECT_NE(o.validate().find("candidate_cap_per_unit = -3"), std::string::npos);
+  o = {};
+  o.threads = -1;
+  EXPECT_NE(o.validate().find("threads = -1"), std::string::npos) << o.validate();
   EXPECT_EQ(photolot::parse_tracking_mode("trimmable"), TrackingMode::trimmable);
   EXPECT_FALSE(photolot::parse_tracking_mode("ratio").has_value());
 }

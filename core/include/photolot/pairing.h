@@ -48,6 +48,9 @@ struct PairOptions {
   // the new edges, instead of solving the component again from scratch; the check after it
   // is the same, and a repair that cannot go on falls back to the solve from scratch.
   bool warm_repair = true;
+  // Worker threads for the candidate search and the certificate check (0: one per core); the
+  // matching itself runs on one. The result is the same on any number.
+  int threads = 0;
 
   // Empty when valid; otherwise names the field, its value and the rule.
   std::string validate() const;

@@ -18,6 +18,7 @@
 #include <utility>
 
 #include "blossom_sums.h"
+#include "chunks.h"
 #include "lemon_cxx20.h"
 #include "test_seams.h"
 #include "warm_matching.h"
@@ -160,17 +161,25 @@ class CellGrid {
   // Returns false when stopped.
   template <class F>
   bool for_each_near_pair(F&& f, const std::stop_token& stop) const {
-    return for_each_near_slot_pair([&](std::uint32_t p, std::uint32_t q) { f(order_[p], order_[q]); },
-                                   stop);
+    return for_each_near_slot_pair(
+        [&](std::uint32_t p, std::uint32_t q) { f(order_[p], order_[q]); }, stop);
   }
 
   // The same by slots: the nodes' places in the grid's cell order (node_at(slot) is the node),
   // so that a caller keeping its per-node values in that order reads them nearly in sequence.
   template <class F>
   bool for_each_near_slot_pair(F&& f, const std::stop_token& stop) const {
+    return for_each_near_slot_pair_from(0, cells_.size(), f, stop);
+  }
+
+  // The same for the pairs whose first slot lies in cells [first, last) of the grid's cells
+  // (each pair is found from one cell only, so ranges of cells share out the pairs).
+  template <class F>
+  bool for_each_near_slot_pair_from(std::size_t first, std::size_t last, F&& f,
+                                    const std::stop_token& stop) const {
     static constexpr std::int64_t kForward[4][2] = {{0, 1}, {1, -1}, {1, 0}, {1, 1}};
-    for (std::size_t c = 0; c < cells_.size(); ++c) {
-      if ((c & 1023) == 0 && stop.stop_requested()) return false;
+    for (std::size_t c = first; c < last; ++c) {
+      if (((c - first) & 1023) == 0 && stop.stop_requested()) return false;
       const Cell& a = cells_[c];
       for (std::uint32_t p = a.begin; p < a.end; ++p)
         for (std::uint32_t q = p + 1; q < a.end; ++q) f(p, q);
@@ -186,6 +195,7 @@ class CellGrid {
 
   std::uint32_t node_at(std::uint32_t slot) const { return order_[slot]; }
   std::size_t slots() const { return order_.size(); }
+  std::size_t cells() const { return cells_.size(); }
 
   // Calls f(w) for every other node w in the cell of `node` or the eight around it.
   template <class F>
@@ -246,7 +256,7 @@ bool for_each_tolerance_edge(const Nodes& nodes, const CellGrid& grid, double to
 // once the list is full and its worst entry is below that, or r cell widths exceed the
 // tolerance. Returns false when stopped.
 bool nearest_within_tolerance(const Nodes& nodes, double tol_ln, double tol_pct, std::size_t cap,
-                              std::vector<std::pair<double, std::uint32_t>>& near,
+                              int threads, std::vector<std::pair<double, std::uint32_t>>& near,
                               std::vector<std::uint32_t>& count, const std::stop_token& stop) {
   const std::size_t n = nodes.size();
   near.assign(n * cap, {});
@@ -275,7 +285,8 @@ bool nearest_within_tolerance(const Nodes& nodes, double tol_ln, double tol_pct,
   // Nodes by cell, row-major (compressed: start[c] .. start[c + 1]).
   std::vector<std::uint32_t> cell_of(n), start(std::size_t(nx * ny) + 1, 0), by_cell(n);
   for (std::uint32_t v = 0; v < n; ++v) {
-    cell_of[v] = static_cast<std::uint32_t>(index(nodes.y[v], y0, ny) * nx + index(nodes.x[v], x0, nx));
+    cell_of[v] =
+        static_cast<std::uint32_t>(index(nodes.y[v], y0, ny) * nx + index(nodes.x[v], x0, nx));
     ++start[cell_of[v] + 1];
   }
   for (std::size_t c = 1; c < start.size(); ++c) start[c] += start[c - 1];
@@ -285,8 +296,8 @@ bool nearest_within_tolerance(const Nodes& nodes, double tol_ln, double tol_pct,
   }
   // Below r cell widths by a margin far above the rounding of the cell indices.
   auto reach = [&](std::int64_t r) { return double(r) * cell * (1 - 1e-9); };
-  for (std::uint32_t v = 0; v < n; ++v) {
-    if ((v & 1023) == 0 && stop.stop_requested()) return false;
+  // Each node's list is its own: ranges of nodes go to the workers as they come.
+  auto search = [&](std::uint32_t v) {
     auto* list = near.data() + std::size_t(v) * cap;
     std::uint32_t size = 0;
     auto visit_cell = [&](std::int64_t cx, std::int64_t cy) {
@@ -329,8 +340,16 @@ bool nearest_within_tolerance(const Nodes& nodes, double tol_ln, double tol_pct,
     }
     std::sort_heap(list, list + size);
     count[v] = size;
-  }
-  return true;
+  };
+  return detail::for_each_range(n, 64, threads, stop,
+                                [&](std::size_t begin, std::size_t end, std::size_t) {
+                                  for (std::size_t v = begin; v < end; ++v) {
+                                    if (((v - begin) & 1023) == 0 && stop.stop_requested())
+                                      return false;
+                                    search(static_cast<std::uint32_t>(v));
+                                  }
+                                  return true;
+                                });
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -617,47 +636,63 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
     spot[p] = sol.potential[v];
     spower[p] = nodes.row[v] < 0;
   }
-  const bool ok = grid.for_each_near_slot_pair(
-      [&](std::uint32_t p, std::uint32_t q) {
-        const double lb = std::max(std::abs(sx[p] - sx[q]), std::abs(sy[p] - sy[q]));
-        if (lb > tol_ln) return;
-        // Within tolerance? For two power laws lb is the error itself, and clearly inside the
-        // tolerance needs no expm1; otherwise (and near the limit) the exact error decides.
-        const bool power = spower[p] && spower[q];
-        const std::uint32_t a = grid.node_at(p), b = grid.node_at(q);
-        auto error_pct = [&]() { return to_pct(power ? lb : nodes.exact_ln(a, b)); };
-        double err = kNaN;
-        if (power && lb < surely_within) {
-          ++r.within;
-        } else {
-          err = error_pct();
-          if (err > o.tolerance_pct) return;
-          ++r.within;
-        }
-        // Covered by the node values and the blossom values the two share, even at the least
-        // cost the pair can have? From x = the plane's lower bound of the ln error (exact for
-        // two power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x); covered when
-        // 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4). The margin of 1e-3 quanta
-        // is far above the rounding of these few operations. Only pairs close to tight (the
-        // matched ones among them) need their exact cost.
-        const Wide nodes_cover = Wide(spot[p]) + spot[q];
-        if (nodes_cover >= full_need) return;
-        const Wide cover = nodes_cover + forest.shared_at(sposition[p], sposition[q]);
-        if (cover >= full_need) return;
-        if (per_quantum > 0 && cover >= 0) {
-          const Wide c_needed = Wide(costing.big) - cover / Matcher::dualScale;
-          const double x = lb;
-          const double below_expm1 = x * (1 + x * (0.5 + x * (1.0 / 6 + x / 24)));
-          if (c_needed <= costing.max_cost &&
-              below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
-            return;
-        }
-        if (std::isnan(err)) err = error_pct();
-        const std::int64_t c = costing.cost(err);
-        const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
-        if (cover < need) r.violations.push_back({std::min(a, b), std::max(a, b), err, c});
-      },
-      stop);
+  // Ranges of cells shared among the workers; each keeps its count and violations by range,
+  // merged in range order below, so the result is the same on any number of threads.
+  struct Found {
+    std::size_t within = 0;
+    std::vector<Edge> violations;
+  };
+  const std::size_t ranges = std::min<std::size_t>(grid.cells(), 64);
+  std::vector<Found> found(std::max<std::size_t>(ranges, 1));
+  auto pass = [&](std::uint32_t p, std::uint32_t q, Found& out) {
+    const double lb = std::max(std::abs(sx[p] - sx[q]), std::abs(sy[p] - sy[q]));
+    if (lb > tol_ln) return;
+    // Within tolerance? For two power laws lb is the error itself, and clearly inside the
+    // tolerance needs no expm1; otherwise (and near the limit) the exact error decides.
+    const bool power = spower[p] && spower[q];
+    const std::uint32_t a = grid.node_at(p), b = grid.node_at(q);
+    auto error_pct = [&]() { return to_pct(power ? lb : nodes.exact_ln(a, b)); };
+    double err = kNaN;
+    if (power && lb < surely_within) {
+      ++out.within;
+    } else {
+      err = error_pct();
+      if (err > o.tolerance_pct) return;
+      ++out.within;
+    }
+    // Covered by the node values and the blossom values the two share, even at the least
+    // cost the pair can have? From x = the plane's lower bound of the ln error (exact for
+    // two power laws), x + x^2/2 + x^3/6 + x^4/24 is below expm1(x); covered when
+    // 4 (big - c) <= cover, i.e. c >= big - floor(cover / 4). The margin of 1e-3 quanta
+    // is far above the rounding of these few operations. Only pairs close to tight (the
+    // matched ones among them) need their exact cost.
+    const Wide nodes_cover = Wide(spot[p]) + spot[q];
+    if (nodes_cover >= full_need) return;
+    const Wide cover = nodes_cover + forest.shared_at(sposition[p], sposition[q]);
+    if (cover >= full_need) return;
+    if (per_quantum > 0 && cover >= 0) {
+      const Wide c_needed = Wide(costing.big) - cover / Matcher::dualScale;
+      const double x = lb;
+      const double below_expm1 = x * (1 + x * (0.5 + x * (1.0 / 6 + x / 24)));
+      if (c_needed <= costing.max_cost &&
+          below_expm1 * per_quantum >= double(c_needed) + 0.5 + 1e-3)
+        return;
+    }
+    if (std::isnan(err)) err = error_pct();
+    const std::int64_t c = costing.cost(err);
+    const Wide need = Wide(Matcher::dualScale) * (costing.big - c);
+    if (cover < need) out.violations.push_back({std::min(a, b), std::max(a, b), err, c});
+  };
+  const bool ok = detail::for_each_range(
+      grid.cells(), ranges, o.threads, stop,
+      [&](std::size_t first, std::size_t last, std::size_t k) {
+        return grid.for_each_near_slot_pair_from(
+            first, last, [&](std::uint32_t p, std::uint32_t q) { pass(p, q, found[k]); }, stop);
+      });
+  for (Found& f : found) {
+    r.within += f.within;
+    r.violations.insert(r.violations.end(), f.violations.begin(), f.violations.end());
+  }
   r.stopped = !ok;
   return r;
 }
@@ -710,6 +745,7 @@ std::string PairOptions::validate() const {
                        grid_points_per_decade);
   if (max_repair_rounds < 1)
     return fmt::format("max_repair_rounds = {} must be at least 1", max_repair_rounds);
+  if (threads < 0) return fmt::format("threads = {} must be 0 (one per core) or more", threads);
   return {};
 }
 
@@ -837,7 +873,8 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   } else {
     std::vector<std::pair<double, std::uint32_t>> near;
     std::vector<std::uint32_t> count;
-    if (!nearest_within_tolerance(nodes, tol_ln, o.tolerance_pct, cap, near, count, stop))
+    if (!nearest_within_tolerance(nodes, tol_ln, o.tolerance_pct, cap, o.threads, near, count,
+                                  stop))
       return cancelled();
     for (std::uint32_t v = 0; v < n; ++v) {
       const auto* list = near.data() + std::size_t(v) * cap;
