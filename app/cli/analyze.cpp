@@ -206,7 +206,9 @@ int run_analyze(AnalyzeConfig& config) {
       const bool ok = spec ? verdicts[i].verdict == Verdict::conforming : fit.units[i].ok();
       if (ok) eligible.push_back(i);
     }
-    pairing = pair_units(fit, eligible, config.pair.options);
+    PairOptions pair_options = config.pair.options;
+    pair_options.threads = config.fit.threads;  // one --threads for every pass that shares out
+    pairing = pair_units(fit, eligible, pair_options);
     results::Json options = pair_options_json(config.pair.options);
     options["eligible"] = spec ? "conforming to the spec" : "fitted";
     doc.options["pairing"] = options;

@@ -114,7 +114,9 @@ void add_fit_options(CLI::App& command, fitting::FitOptions& o) {
       ->capture_default_str()
       ->group(group);
   command
-      .add_option("--threads", o.threads, "Worker threads (0: all cores); results do not change")
+      .add_option("--threads", o.threads,
+                  "Worker threads for the fits and the pairing's searches (0: all cores); results "
+                  "do not change")
       ->capture_default_str()
       ->group(group);
 }
