@@ -52,7 +52,7 @@ double peak_rss_mb() {
 
 void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_pct,
          int cap = photolot::PairOptions{}.candidate_cap_per_unit, bool spatial_order = true,
-         bool warm_repair = true, int threads = 0) {
+         bool warm_repair = true, int threads = 0, bool near_check = true) {
   const photolot::LotFit fit = make_lot(static_cast<std::size_t>(state.range(0)));
   photolot::PairOptions o;
   o.mode = mode;
@@ -61,6 +61,7 @@ void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_
   o.spatial_order = spatial_order;
   o.warm_repair = warm_repair;
   o.threads = threads;
+  o.near_check = near_check;
   photolot::Pairing p;
   for (auto _ : state) {
     p = photolot::pair_units(fit, o);
@@ -77,6 +78,7 @@ void run(benchmark::State& state, photolot::TrackingMode mode, double tolerance_
   state.counters["repaired"] = double(p.counts.repaired_edges);
   state.counters["warm_rounds"] = double(p.counts.warm_rounds);
   state.counters["warm_fallbacks"] = double(p.counts.warm_fallbacks);
+  state.counters["full_checks"] = double(p.counts.full_checks);
   state.counters["proved"] = p.proof == photolot::ProofStatus::proved_optimal ? 1 : 0;
   state.counters["peak_rss_MB"] = peak_rss_mb();
   state.SetComplexityN(state.range(0));
@@ -111,6 +113,13 @@ void BM_PairAbsolute2pctCap(benchmark::State& state) {
 void BM_PairThreads(benchmark::State& state) {
   run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
       true, true, static_cast<int>(state.range(1)));
+}
+
+// Every round checked in full (no near check first), on 1 thread, against BM_PairThreads/N/1
+// in the same run.
+void BM_PairFullChecks(benchmark::State& state) {
+  run(state, photolot::TrackingMode::absolute, 2.0, photolot::PairOptions{}.candidate_cap_per_unit,
+      true, true, 1, false);
 }
 
 }  // namespace
@@ -173,6 +182,14 @@ BENCHMARK(BM_PairThreads)
     ->ArgsProduct({{10000, 100000}, {1, 2, 1, 2}})
     ->Args({316228, 1})
     ->Args({316228, 2})
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->UseRealTime();
+
+BENCHMARK(BM_PairFullChecks)
+    ->Arg(10000)
+    ->Arg(100000)
+    ->Arg(316228)
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->UseRealTime();

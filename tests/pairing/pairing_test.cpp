@@ -256,6 +256,45 @@ TEST(Pairing, GivesTheSameResultOnAnyNumberOfThreads) {
   }
 }
 
+TEST(Pairing, TheNearCheckChangesTheWorkNotTheResult) {
+  // With a cap, a round first checks the pairs near each unit only, and the full check (the
+  // proof) runs when that finds nothing. Against the same lots with every round checked in
+  // full: both proved, the same number of pairs and the same total to rounding. Across the
+  // lots, the near check must both save full checks and, at least once, leave to the full
+  // check a violated pair beyond its reach (then one more round), so that both paths run.
+  std::mt19937_64 rng(777);
+  std::size_t saved = 0, caught_by_full = 0;
+  for (int seed = 0; seed < 16; ++seed) {
+    const int n = 150 + 50 * seed;
+    const LotFit fit = random_plane_lot(rng, n, 0.2);
+    PairOptions o;
+    o.mode = seed % 4 == 3 ? TrackingMode::trimmable : TrackingMode::absolute;
+    o.tolerance_pct = o.mode == TrackingMode::absolute ? 2.0 : 0.5;
+    o.candidate_cap_per_unit = 1 + seed % 3;
+    o.warm_repair = seed % 5 != 4;
+    const Pairing near = photolot::pair_units(fit, o);
+    PairOptions full = o;
+    full.near_check = false;
+    const Pairing every = photolot::pair_units(fit, full);
+    SCOPED_TRACE("seed " + std::to_string(seed));
+    ASSERT_TRUE(is_matching(near, fit.units.size()));
+    EXPECT_EQ(near.proof, ProofStatus::proved_optimal) << near.proof_detail;
+    EXPECT_EQ(every.proof, ProofStatus::proved_optimal) << every.proof_detail;
+    EXPECT_EQ(near.pairs.size(), every.pairs.size());
+    EXPECT_NEAR(near.total_error_pct, every.total_error_pct,
+                2 * near.total_error_rounding_bound_pct + 1e-9);
+    EXPECT_EQ(near.counts.tolerance_edges, every.counts.tolerance_edges);
+    EXPECT_EQ(every.counts.near_checks, 0u);
+    EXPECT_EQ(every.counts.full_checks, every.counts.rounds);
+    EXPECT_EQ(near.counts.near_checks, near.counts.rounds);
+    EXPECT_GE(near.counts.full_checks, 1u);
+    saved += near.counts.full_checks < every.counts.full_checks;
+    caught_by_full += near.counts.full_checks > 1;
+  }
+  EXPECT_GT(saved, 0u) << "no lot saved a full check";
+  EXPECT_GT(caught_by_full, 0u) << "no lot had a violated pair beyond the near check's reach";
+}
+
 TEST(Pairing, AWarmRepairThatGivesUpFallsBackToSolvingFromScratch) {
   // The fallback path (a warm repair that finds the matching's state other than expected):
   // a test seam makes the first or second warm repair give up half way, after it has

@@ -48,6 +48,10 @@ struct PairOptions {
   // the new edges, instead of solving the component again from scratch; the check after it
   // is the same, and a repair that cannot go on falls back to the solve from scratch.
   bool warm_repair = true;
+  // With a cap, each round first checks the pairs near each unit only (a few times as far as
+  // its farthest candidate), where the pairs the cap missed lie, and checks every pair within
+  // tolerance (the proof) only when that finds nothing; the result is the same either way.
+  bool near_check = true;
   // Worker threads for the candidate search and the certificate check (0: one per core); the
   // matching itself runs on one. The result is the same on any number.
   int threads = 0;
@@ -97,6 +101,8 @@ struct PairingCounts {
   std::size_t rounds = 0;             // solve-and-check rounds
   std::size_t repaired_edges = 0;     // edges added because the check found them improving
   std::size_t warm_rounds = 0;        // repair rounds run on from the last state
+  std::size_t near_checks = 0;        // rounds checked first near each unit only
+  std::size_t full_checks = 0;        // passes over every pair within tolerance
   std::size_t warm_fallbacks = 0;     // warm repairs that could not go on (solved from scratch)
 };
 
