@@ -634,7 +634,8 @@ bool uncovered(const Solution& sol, const BlossomForest& forest, const Costing& 
 
 CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const PairOptions& o,
                               double tol_ln, const Costing& costing, const Solution& sol,
-                              const std::vector<Edge>& edges, const std::stop_token& stop) {
+                              const BlossomForest& forest, const std::vector<Edge>& edges,
+                              const std::stop_token& stop) {
   CheckResult r;
   const std::size_t n = nodes.size();
   Wide dual = 0, primal = 0;
@@ -654,7 +655,6 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
   if (dual != primal * Matcher::dualScale && r.problem.empty())
     r.problem = "the dual objective differs from the matching's weight";
 
-  const BlossomForest forest(sol);
   // Cost steps per unit of expm1(ln error), for the lower bound of a pair's cost below.
   const double per_quantum = costing.quantum_pct > 0 ? 100.0 / costing.quantum_pct : 0;
   const Wide full_need = Wide(Matcher::dualScale) * costing.big;  // the need at cost zero
@@ -742,10 +742,10 @@ CheckResult check_certificate(const Nodes& nodes, const CellGrid& grid, const Pa
 // runs the full check. Violations are the full check's (the same test, exact costs).
 CheckResult check_near(const Nodes& nodes, const FineGrid& fine, const std::vector<double>& radius,
                        const PairOptions& o, double tol_ln, const Costing& costing,
-                       const Solution& sol, const std::stop_token& stop) {
+                       const Solution& sol, const BlossomForest& forest,
+                       const std::stop_token& stop) {
   CheckResult r;
   const std::size_t n = nodes.size();
-  const BlossomForest forest(sol);
   std::vector<std::vector<Edge>> found(std::max<std::size_t>(std::min<std::size_t>(n, 64), 1));
   auto visit_unit = [&](std::uint32_t v, std::vector<Edge>& out) {
     const double rv = radius[v];
@@ -932,7 +932,10 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   }
 
   const std::size_t cap = static_cast<std::size_t>(o.candidate_cap_per_unit);
-  const FineGrid fine(nodes, tol_ln);
+  // The fine grid serves the capped search and the near check; every pair is an edge without
+  // a cap, and neither runs.
+  std::optional<FineGrid> fine;
+  if (cap > 0) fine.emplace(nodes, tol_ln);
   // Per unit, how far the near check reads (0: every pair within tolerance at it is an edge).
   std::vector<double> near_radius(n, 0.0);
   constexpr double kNearReach = 1.5;
@@ -958,7 +961,7 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   } else {
     std::vector<std::pair<double, std::uint32_t>> near;
     std::vector<std::uint32_t> count;
-    if (!nearest_within_tolerance(nodes, fine, tol_ln, o.tolerance_pct, cap, o.threads, near, count,
+    if (!nearest_within_tolerance(nodes, *fine, tol_ln, o.tolerance_pct, cap, o.threads, near, count,
                                   stop))
       return cancelled();
     for (std::uint32_t v = 0; v < n; ++v) {
@@ -1095,13 +1098,16 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     CheckResult check;
     const bool near_first = o.near_check && cap > 0;
     bool check_was_full = false;
+    // The blossom sums of this round's dual, built once for both checks and the test of the
+    // added pairs below.
+    const BlossomForest forest(sol);
     if (near_first) {
-      check = check_near(nodes, fine, near_radius, o, tol_ln, costing, sol, stop);
+      check = check_near(nodes, *fine, near_radius, o, tol_ln, costing, sol, forest, stop);
       if (check.stopped) return cancelled();
       ++out.counts.near_checks;
     }
     if (!near_first || check.violations.empty()) {
-      check = check_certificate(nodes, grid, o, tol_ln, costing, sol, edges, stop);
+      check = check_certificate(nodes, grid, o, tol_ln, costing, sol, forest, edges, stop);
       if (check.stopped) return cancelled();
       ++out.counts.full_checks;
       check_was_full = true;
@@ -1162,7 +1168,6 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
     // The warm repair must be told every added edge the dual leaves uncovered; after a near
     // check, which did not test the farther ones, they are tested here.
     if (!check_was_full) {
-      const BlossomForest forest(sol);
       violations.clear();
       for (const Edge& e : added)
         if (uncovered(sol, forest, costing, e.i, e.j, e.cost)) violations.push_back(e);
