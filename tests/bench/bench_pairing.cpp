@@ -10,36 +10,21 @@
 #include <cstdint>
 #include <string>
 
+#include "bench_lot.h"
 #include "photolot/pairing.h"
 
 namespace {
 
-// A small portable generator (splitmix64 + Box-Muller): the same lot on every platform.
-struct Stream {
-  std::uint64_t s;
-  double uniform() {
-    std::uint64_t z = (s += 0x9E3779B97F4A7C15ull);
-    z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9ull;
-    z = (z ^ (z >> 27)) * 0x94D049BB133111EBull;
-    return double((z ^ (z >> 31)) >> 11) * 0x1.0p-53;
-  }
-  double normal() {
-    const double u = 1.0 - uniform(), v = uniform();
-    return std::sqrt(-2.0 * std::log(u)) * std::cos(6.283185307179586 * v);
-  }
-};
-
 photolot::LotFit make_lot(std::size_t n) {
-  Stream rng{12345};
+  const auto draws = photolot::bench::draw_lot(n);
   photolot::LotFit fit;
   fit.units.resize(n);
   for (std::size_t i = 0; i < n; ++i) {
     auto& u = fit.units[i];
     u.id = "U" + std::to_string(i + 1);
     u.status = photolot::FitStatus::fitted;
-    const double ln_r10 = std::log(20e3) + 0.15 * rng.normal();
-    const double gamma = 0.75 + 0.03 * rng.normal();
-    u.curve = photolot::make_power_law(std::exp(ln_r10), gamma, {1e-4, 0, 0, 1e-5});
+    u.curve =
+        photolot::make_power_law(std::exp(draws[i].ln_r10), draws[i].gamma, {1e-4, 0, 0, 1e-5});
   }
   return fit;
 }

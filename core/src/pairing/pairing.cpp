@@ -961,8 +961,8 @@ Pairing pair_units(const LotFit& fit, const std::vector<std::size_t>& eligible,
   } else {
     std::vector<std::pair<double, std::uint32_t>> near;
     std::vector<std::uint32_t> count;
-    if (!nearest_within_tolerance(nodes, *fine, tol_ln, o.tolerance_pct, cap, o.threads, near, count,
-                                  stop))
+    if (!nearest_within_tolerance(nodes, *fine, tol_ln, o.tolerance_pct, cap, o.threads, near,
+                                  count, stop))
       return cancelled();
     for (std::uint32_t v = 0; v < n; ++v) {
       const auto* list = near.data() + std::size_t(v) * cap;
