@@ -1,10 +1,12 @@
 // Determinism (DEVELOPERS.md: "Results are deterministic whatever the thread count"): the
 // results document photolot-cli writes is byte-identical for 1, 2 and 4 worker threads and
 // across runs, on a simulated lot that exercises every path of the fit: decade-slip outliers
-// (the robust loss), over-range readings (censored), dark readings, and temperature drift.
+// (the robust loss), over-range readings (censored), dark readings, and temperature drift;
+// and the pairing, whose candidate search and certificate check share the same threads.
 // A document that differs in any byte fails, so an order that depends on thread scheduling
 // (a merge of per-thread results, a sum in a different order) cannot slip in.
 #include <gtest/gtest.h>
+
 #include <filesystem>
 #include <string>
 
@@ -38,7 +40,8 @@ TEST(Determinism, ResultsDocumentIsTheSameBytesForOneTwoAndFourThreadsAndAcrossR
     SCOPED_TRACE(std::string("--threads ") + run);
     fs::remove(dir / "out.json");
     ASSERT_EQ(
-        cli(std::string("analyze lot.csv --quiet --residuals --json out.json --threads ") + run,
+        cli(std::string("analyze lot.csv --quiet --residuals --pair --json out.json --threads ") +
+                run,
             dir),
         0);
     const std::string doc = read_file(dir / "out.json");
@@ -48,6 +51,7 @@ TEST(Determinism, ResultsDocumentIsTheSameBytesForOneTwoAndFourThreadsAndAcrossR
       // The lot must hold what it is meant to exercise, or the comparison proves little.
       EXPECT_NE(doc.find("\"censored\""), std::string::npos);
       EXPECT_NE(doc.find("\"dark\""), std::string::npos);
+      EXPECT_NE(doc.find("\"tracking_error_pct\""), std::string::npos);  // some pairs found
       continue;
     }
     EXPECT_TRUE(doc == reference) << "first difference at byte " << first_difference(doc, reference)
