@@ -174,6 +174,7 @@ BENCHMARK(BM_LemonWeighted)
     ->Arg(10000)
     ->Arg(31623)
     ->Arg(100000)
+    ->Arg(316228)
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->MeasureProcessCPUTime();
