@@ -1,7 +1,8 @@
 // Where the pairing's growth comes from, measured on LEMON's own algorithms (not photolot's
 // copy): the same invented lots as bench_pairing.cpp, each unit's 16 nearest within 2 % as
 // edges (built here with a plain grid, not photolot's search), weights BIG - cost as in
-// docs/pairing.md. Three runs per lot size (docs/performance.md, "Seventh round"):
+// docs/pairing.md. Three benchmarks, each over the lot sizes (docs/performance.md, "Seventh
+// round"):
 //   BM_LemonWeighted    MaxWeightedMatching, the exact solve photolot's first round starts from;
 //   BM_LemonFractional  MaxWeightedFractionalMatching alone (no blossoms; its start);
 //   BM_LemonCoreOnly    MaxMatching's Gallai-Edmonds decomposition, then the units every
