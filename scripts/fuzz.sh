@@ -4,7 +4,7 @@
 # starting from its seed corpus in tests/fuzz/corpus/<target>/. Run by CI after the sanitizer
 # stage, whose build it reuses: only the fuzz programs' own files are compiled again.
 #
-#   ./scripts/fuzz.sh                 # every target, 60 s each (CI passes 45)
+#   ./scripts/fuzz.sh                 # every target, 60 s each (as CI runs it)
 #   ./scripts/fuzz.sh 3600 import     # one target for an hour (docs/hardening.md)
 #
 # New inputs found go to a scratch corpus (not into the tree). A crash stops the run, leaves the
