@@ -1,6 +1,8 @@
 // The invented lot of the pairing benchmarks: power-law units spread like a batch (ln R10 sd
 // 0.15 around 20 kOhm, gamma 0.75 sd 0.03), the same on every platform. Shared by
 // bench_pairing.cpp and bench_matching_growth.cpp, so that both measure the same lots.
+// bench_matching_growth.cpp also draws two flat lots of the same units (draw_flat_lot), to see
+// whether the growth comes from the batch's thin edges.
 #pragma once
 
 #include <cmath>
@@ -35,6 +37,21 @@ inline std::vector<UnitDraw> draw_lot(std::size_t n) {
   for (auto& u : out) {
     u.ln_r10 = std::log(20e3) + 0.15 * rng.normal();
     u.gamma = 0.75 + 0.03 * rng.normal();
+  }
+  return out;
+}
+
+// Flat lots: ln R10 and gamma uniform over a box instead of the batch's bell. With
+// fixed_density false the box is the batch's +-2 sd (ln R10 +-0.30, gamma +-0.06) whatever the
+// lot size, so a larger lot is denser, as a larger batch is; with fixed_density true the box's
+// sides grow as sqrt(n / 10,000) from that size, so every lot has the density of 10,000 units.
+inline std::vector<UnitDraw> draw_flat_lot(std::size_t n, bool fixed_density) {
+  Stream rng{12345};
+  const double scale = fixed_density ? std::sqrt(double(n) / 10000.0) : 1.0;
+  std::vector<UnitDraw> out(n);
+  for (auto& u : out) {
+    u.ln_r10 = std::log(20e3) + scale * 0.30 * (2.0 * rng.uniform() - 1.0);
+    u.gamma = 0.75 + scale * 0.06 * (2.0 * rng.uniform() - 1.0);
   }
   return out;
 }

@@ -8,6 +8,9 @@
 //   BM_LemonCoreOnly    MaxMatching's Gallai-Edmonds decomposition, then the units every
 //                       maximum matching covers (set C) paired by MaxWeightedPerfectMatching on
 //                       costs alone: the cardinality question taken out of the weighted solve.
+//   BM_LemonWeightedFlat  MaxWeightedMatching again on flat lots (bench_lot.h, draw_flat_lot):
+//                       second argument 0 for a fixed box (denser as it grows), 1 for a fixed
+//                       density (the box grows): whether the batch's thin edges make the growth.
 // The counters say how large each part of the decomposition is.
 #include <benchmark/benchmark.h>
 #include <lemon/smart_graph.h>
@@ -42,8 +45,10 @@ struct Candidates {
 
 // Each unit's 16 nearest within 2 % (Chebyshev distance of ln R at 1 and 1000 lx, the
 // absolute error of two power laws), each pair once.
-Candidates make_candidates(std::size_t n) {
-  const auto lot = photolot::bench::draw_lot(n);
+// shape: 0 the batch (draw_lot), 1 a flat fixed box, 2 a flat lot of fixed density.
+Candidates make_candidates(std::size_t n, int shape = 0) {
+  const auto lot =
+      shape == 0 ? photolot::bench::draw_lot(n) : photolot::bench::draw_flat_lot(n, shape == 2);
   const double tol_pct = 2.0, tol = std::log1p(tol_pct / 100);
   std::vector<double> x(n), y(n);
   for (std::size_t i = 0; i < n; ++i) {
@@ -105,6 +110,22 @@ void BM_LemonWeighted(benchmark::State& state) {
     state.counters["blossoms"] = double(m.blossomNum());
   }
   state.counters["pairs"] = double(pairs);
+}
+
+void BM_LemonWeightedFlat(benchmark::State& state) {
+  const Candidates c = make_candidates(std::size_t(state.range(0)), 1 + int(state.range(1)));
+  Graph g;
+  Weights w(g);
+  build(c, g, w, c.big());
+  int pairs = 0;
+  for (auto _ : state) {
+    lemon::MaxWeightedMatching<Graph, Weights> m(g, w);
+    m.run();
+    pairs = m.matchingSize();
+    state.counters["blossoms"] = double(m.blossomNum());
+  }
+  state.counters["pairs"] = double(pairs);
+  state.counters["edges"] = double(c.edges.size());
 }
 
 void BM_LemonFractional(benchmark::State& state) {
@@ -176,6 +197,11 @@ BENCHMARK(BM_LemonWeighted)
     ->Arg(31623)
     ->Arg(100000)
     ->Arg(316228)
+    ->Unit(benchmark::kMillisecond)
+    ->Iterations(1)
+    ->MeasureProcessCPUTime();
+BENCHMARK(BM_LemonWeightedFlat)
+    ->ArgsProduct({{10000, 31623, 100000, 316228}, {0, 1}})
     ->Unit(benchmark::kMillisecond)
     ->Iterations(1)
     ->MeasureProcessCPUTime();
