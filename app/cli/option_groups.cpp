@@ -183,15 +183,7 @@ results::Json model_options_json(const ModelArgs& args) {
   j["spec_tc10_pct_per_c"] =
       std::isfinite(o.spec_tc10_pct_per_c) ? results::Json(o.spec_tc10_pct_per_c) : nullptr;
   j["bench_profile"] = text_or_null(args.bench_path);
-  if (o.bench) {
-    results::Json ranges = results::Json::array();
-    for (const auto& r : o.bench->ohm_ranges)
-      ranges.push_back({{"max_ohm", r.max_ohm},
-                        {"pct", r.pct},
-                        {"digits", r.digits},
-                        {"resolution_ohm", r.resolution_ohm}});
-    j["bench"] = {{"lux_pct", o.bench->lux_pct}, {"ohm_ranges", ranges}};
-  }
+  if (o.bench) j["bench"] = bench_profile_json(*o.bench);
   return j;
 }
 

@@ -140,18 +140,7 @@ nlohmann::json to_json(const FitHandling& h) {
   j["temperature"] = std::string(fitting::to_string(o.temperature));
   j["bench_profile"] =
       h.bench_profile_name.empty() ? nlohmann::json(nullptr) : nlohmann::json(h.bench_profile_name);
-  if (o.bench) {
-    nlohmann::json ranges = nlohmann::json::array();
-    for (const auto& r : o.bench->ohm_ranges) {
-      ranges.push_back({{"max_ohm", r.max_ohm},
-                        {"pct", r.pct},
-                        {"digits", r.digits},
-                        {"resolution_ohm", r.resolution_ohm}});
-    }
-    j["bench"] = {{"lux_pct", o.bench->lux_pct}, {"ohm_ranges", ranges}};
-  } else {
-    j["bench"] = nullptr;
-  }
+  j["bench"] = o.bench ? nlohmann::json(bench_profile_json(*o.bench)) : nlohmann::json(nullptr);
   return j;
 }
 
@@ -195,29 +184,10 @@ std::optional<std::string> from_json(const nlohmann::json& j, FitHandling& h) {
     h.bench_profile_name = j["bench_profile"];
   }
   if (j.contains("bench") && !j["bench"].is_null()) {
-    const auto& b = j["bench"];
     BenchProfile profile;
-    if (!b.is_object() || !b.contains("lux_pct") || !b["lux_pct"].is_number()) {
-      return "model.bench.lux_pct must be a number";
-    }
-    profile.lux_pct = b["lux_pct"];
-    if (b.contains("ohm_ranges")) {
-      if (!b["ohm_ranges"].is_array()) return "model.bench.ohm_ranges must be an array";
-      for (const auto& r : b["ohm_ranges"]) {
-        MeterRange range;
-        for (const char* key : {"max_ohm", "pct", "digits", "resolution_ohm"}) {
-          if (!r.is_object() || !r.contains(key) || !r[key].is_number()) {
-            return std::string("model.bench.ohm_ranges[].") + key + " must be a number";
-          }
-        }
-        range.max_ohm = r["max_ohm"];
-        range.pct = r["pct"];
-        range.digits = r["digits"];
-        range.resolution_ohm = r["resolution_ohm"];
-        profile.ohm_ranges.push_back(range);
-      }
-    }
-    if (std::string why = profile.validate(); !why.empty()) return "model.bench: " + why;
+    if (std::string why = bench_profile_from_json(nlohmann::ordered_json(j["bench"]), profile);
+        !why.empty())
+      return "model.bench: " + why;
     o.bench = std::move(profile);
   }
   return std::nullopt;

@@ -79,6 +79,32 @@ TEST(BenchProfile, RejectsARangeWithNoErrorAtAll) {
 // With weights from a bench profile and near noise-free readings, the slope's standard error is
 // the meter's: for a straight line with known, equal sd sigma per point,
 // se(slope) = sigma / sqrt(sum (x - mean x)^2) (ordinary least squares, any regression text).
+// The JSON form the results document and the workspace share: what is written reads back to
+// the same profile (and so to the same weights), and a bad field is named.
+TEST(BenchProfile, JsonFormReadsBackToTheSameProfileAndNamesABadField) {
+  const auto r = parse_bench_profile("bench.toml", kProfile);
+  ASSERT_TRUE(r.ok()) << r.error->message;
+  const auto text = photolot::bench_profile_json(*r.profile).dump();
+  BenchProfile back;
+  ASSERT_EQ(photolot::bench_profile_from_json(nlohmann::ordered_json::parse(text), back), "");
+  EXPECT_EQ(back.lux_pct, 2.0);
+  ASSERT_EQ(back.ohm_ranges.size(), 2u);
+  for (const double ohm : {500.0, 1999.0, 2001.0, 1.5e6, 5e6})
+    EXPECT_EQ(back.ln_ohm_sd(ohm, 0.75), r.profile->ln_ohm_sd(ohm, 0.75)) << ohm;
+
+  auto bad = nlohmann::ordered_json::parse(text);
+  bad["ohm_ranges"][1]["digits"] = "three";
+  BenchProfile untouched;
+  EXPECT_EQ(photolot::bench_profile_from_json(bad, untouched),
+            "ohm_ranges[1].digits must be a number");
+  EXPECT_TRUE(untouched.ohm_ranges.empty());
+  bad["ohm_ranges"][1]["digits"] = -1;
+  EXPECT_NE(photolot::bench_profile_from_json(bad, untouched).find("digits = -1"),
+            std::string::npos);
+  EXPECT_EQ(photolot::bench_profile_from_json(nlohmann::ordered_json::array(), untouched),
+            "lux_pct must be a number");
+}
+
 TEST(MeterWeights, IntervalsReflectTheMetersStatedAccuracy) {
   photolot::test::UnitSim sim;
   sim.noise_pct = 0.001;

@@ -124,7 +124,7 @@ TEST(FitHandling, NamesTheFieldOfABadValue) {
   EXPECT_EQ(*error, "model.model = \"spline\" is not power_law, dark_conductance or choose");
   const auto bench = from_json(nlohmann::json{{"bench", {{"lux_pct", "three"}}}}, h);
   ASSERT_TRUE(bench.has_value());
-  EXPECT_EQ(*bench, "model.bench.lux_pct must be a number");
+  EXPECT_EQ(*bench, "model.bench: lux_pct must be a number");
 }
 
 }  // namespace

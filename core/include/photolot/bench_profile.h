@@ -23,6 +23,7 @@
 // The meter autoranges: a reading uses the smallest range whose max_ohm is at least R.
 #pragma once
 
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -66,5 +67,12 @@ struct BenchProfileResult {
 BenchProfileResult parse_bench_profile(std::string_view name, std::string_view toml_text);
 // Reads and parses a bench profile file.
 BenchProfileResult load_bench_profile(const std::string& path);
+
+// The profile as the results document (inputs.options.model.bench) and the saved workspace
+// record it: {"lux_pct": 3, "ohm_ranges": [{"max_ohm", "pct", "digits", "resolution_ohm"}]}.
+nlohmann::ordered_json bench_profile_json(const BenchProfile& profile);
+// Reads that object back and validates it. Empty when `profile` was set; otherwise what is
+// wrong, naming the field inside the object ("lux_pct must be a number").
+std::string bench_profile_from_json(const nlohmann::ordered_json& j, BenchProfile& profile);
 
 }  // namespace photolot

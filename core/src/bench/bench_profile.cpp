@@ -1,6 +1,5 @@
 // Bench profile: validation, the uncertainty formulas (bench_profile.h) and the TOML loader.
 #include "photolot/bench_profile.h"
-#include "photolot/read_file.h"
 
 #include <fmt/format.h>
 #include <toml++/toml.h>
@@ -9,6 +8,8 @@
 #include <cmath>
 #include <fstream>
 #include <sstream>
+
+#include "photolot/read_file.h"
 
 namespace photolot {
 
@@ -161,11 +162,41 @@ BenchProfileResult load_bench_profile(const std::string& path) {
   FileRead read = read_regular_file(path, std::uint64_t{1} << 20);
   if (read.ok()) return parse_bench_profile(path, read.text);
   BenchProfileResult r;
-  r.error = FileError{path, 0, 0,
-                      read.problem == ReadProblem::missing || read.problem == ReadProblem::unreadable
-                          ? std::string("cannot open the bench profile for reading")
-                          : "the bench profile " + describe(read)};
+  r.error =
+      FileError{path, 0, 0,
+                read.problem == ReadProblem::missing || read.problem == ReadProblem::unreadable
+                    ? std::string("cannot open the bench profile for reading")
+                    : "the bench profile " + describe(read)};
   return r;
+}
+
+nlohmann::ordered_json bench_profile_json(const BenchProfile& profile) {
+  nlohmann::ordered_json ranges = nlohmann::ordered_json::array();
+  for (const MeterRange& r : profile.ohm_ranges)
+    ranges.push_back({{"max_ohm", r.max_ohm},
+                      {"pct", r.pct},
+                      {"digits", r.digits},
+                      {"resolution_ohm", r.resolution_ohm}});
+  return {{"lux_pct", profile.lux_pct}, {"ohm_ranges", std::move(ranges)}};
+}
+
+std::string bench_profile_from_json(const nlohmann::ordered_json& j, BenchProfile& profile) {
+  BenchProfile p;
+  if (!j.is_object() || !j.contains("lux_pct") || !j["lux_pct"].is_number())
+    return "lux_pct must be a number";
+  p.lux_pct = j["lux_pct"];
+  if (j.contains("ohm_ranges")) {
+    if (!j["ohm_ranges"].is_array()) return "ohm_ranges must be an array";
+    for (const auto& r : j["ohm_ranges"]) {
+      for (const char* key : {"max_ohm", "pct", "digits", "resolution_ohm"})
+        if (!r.is_object() || !r.contains(key) || !r[key].is_number())
+          return fmt::format("ohm_ranges[{}].{} must be a number", p.ohm_ranges.size(), key);
+      p.ohm_ranges.push_back({r["max_ohm"], r["pct"], r["digits"], r["resolution_ohm"]});
+    }
+  }
+  if (std::string why = p.validate(); !why.empty()) return why;
+  profile = std::move(p);
+  return {};
 }
 
 }  // namespace photolot
