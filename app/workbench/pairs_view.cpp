@@ -32,7 +32,7 @@ int PairTableModel::rowCount(const QModelIndex& parent) const {
 }
 
 int PairTableModel::columnCount(const QModelIndex& parent) const {
-  return parent.isValid() ? 0 : 5;
+  return parent.isValid() ? 0 : 6;
 }
 
 QVariant PairTableModel::data(const QModelIndex& index, int role) const {
@@ -49,13 +49,18 @@ QVariant PairTableModel::data(const QModelIndex& index, int role) const {
       case 3:
         return format_number(p.tracking_error_pct, 3);
       case 4:
+        return std::isfinite(p.tracking_error_sigma_pct)
+                   ? QVariant(format_number(p.tracking_error_sigma_pct, 2))
+                   : QVariant();
+      case 5:
         return format_number(p.worst_lux, 3);
     }
   }
   if (role == Qt::TextAlignmentRole && index.column() != 1 && index.column() != 2) {
     return static_cast<int>(Qt::AlignRight | Qt::AlignVCenter);
   }
-  if (role == Qt::ToolTipRole && index.column() == 3 && std::isfinite(p.tracking_error_sigma_pct)) {
+  if (role == Qt::ToolTipRole && (index.column() == 3 || index.column() == 4) &&
+      std::isfinite(p.tracking_error_sigma_pct)) {
     return tr("± %1 % (1 sd, from the fits' covariances)")
         .arg(format_number(p.tracking_error_sigma_pct, 2));
   }
@@ -74,6 +79,8 @@ QVariant PairTableModel::headerData(int section, Qt::Orientation orientation, in
     case 3:
       return tr("Error %");
     case 4:
+      return tr("± sd %");
+    case 5:
       return tr("Worst at lx");
   }
   return {};
@@ -131,6 +138,8 @@ PairsView::PairsView(QWidget* parent) : QWidget(parent) {
   table_->verticalHeader()->setVisible(false);
   table_->horizontalHeader()->setStretchLastSection(true);
   unpaired_ = new QListWidget(this);
+  unpaired_->setObjectName(QStringLiteral("unpairedList"));
+  unpaired_->setWordWrap(true);
 
   auto* left = new QWidget(this);
   auto* left_layout = new QVBoxLayout(left);
@@ -199,6 +208,7 @@ void PairsView::setFit(std::shared_ptr<const LotFit> fit) {
 void PairsView::setPairing(std::shared_ptr<const Pairing> pairing, bool stale,
                            PairEligibility among) {
   model_->setPairing(pairing);
+  table_->resizeColumnsToContents();
   unpaired_->clear();
   export_->setEnabled(pairing != nullptr);
   if (!pairing) {
@@ -222,13 +232,11 @@ void PairsView::setPairing(std::shared_ptr<const Pairing> pairing, bool stale,
   constexpr std::size_t kListed = 2000;
   for (std::size_t i = 0; i < pairing->unpaired.size() && i < kListed; ++i) {
     const auto& u = pairing->unpaired[i];
-    QString text = QStringLiteral("%1 — %2").arg(QString::fromStdString(u.id),
-                                                 QString::fromStdString(u.reason));
-    if (!u.nearest_id.empty()) {
-      text += tr(" (nearest %1 at %2 %)")
-                  .arg(QString::fromStdString(u.nearest_id), format_number(u.nearest_error_pct, 3));
-    }
-    unpaired_->addItem(text);
+    // The reason names the nearest unit and its error already.
+    const QString text = QStringLiteral("%1 — %2").arg(QString::fromStdString(u.id),
+                                                       QString::fromStdString(u.reason));
+    auto* item = new QListWidgetItem(text, unpaired_);
+    item->setToolTip(text);
   }
   if (!pairing->pairs.empty()) {
     table_->selectRow(0);
@@ -241,10 +249,16 @@ void PairsView::showPair(int row) {
   plot_->clearPlottables();
   plot_->clearItems();
   plot_->plotLayout()->clear();
+  // Title above the curves, not on them: a falling curve fills the upper left of its plot.
+  auto* title = new QCPTextElement(plot_, QString(), QFont(font().family(), -1, QFont::Bold));
+  title->setObjectName(QStringLiteral("pairTitle"));
+  // A long title may be cut rather than widen the plot, and with it the window's splitter.
+  title->setMinimumSize(1, 0);
   auto* curves = new QCPAxisRect(plot_);
   auto* ratio = new QCPAxisRect(plot_);
-  plot_->plotLayout()->addElement(0, 0, curves);
-  plot_->plotLayout()->addElement(1, 0, ratio);
+  plot_->plotLayout()->addElement(0, 0, title);
+  plot_->plotLayout()->addElement(1, 0, curves);
+  plot_->plotLayout()->addElement(2, 0, ratio);
   for (QCPAxisRect* rect : {curves, ratio}) {
     QCPAxis* x = rect->axis(QCPAxis::atBottom);
     x->setScaleType(QCPAxis::stLogarithmic);
@@ -265,6 +279,7 @@ void PairsView::showPair(int row) {
     text->position->setType(QCPItemPosition::ptAxisRectRatio);
     text->position->setCoords(0.5, 0.5);
     text->setText(tr("Choose a pair to see its two curves and their ratio."));
+    title->setText(tr("No pair chosen"));
     plot_->replot(QCustomPlot::rpQueuedReplot);
     return;
   }
@@ -300,36 +315,58 @@ void PairsView::showPair(int row) {
     hi_r = std::max({hi_r, ra[i], rb[i]});
   }
   cy->setRange(lo_r / 1.3, hi_r * 1.3);
+  // The tolerance band: for equal resistances R_A / R_B - 1 must stay within +-tol; for a
+  // trimmed ratio only its drift counts, so the band is ln(1 + tol) wide about the middle of
+  // the ratio's own range (a pair within tolerance fits inside it).
   const double tol = pairing->options.tolerance_pct;
-  double reach = tol * 1.2;
-  for (double e : err) reach = std::max(reach, std::fabs(e) * 1.2);
-  ratio->axis(QCPAxis::atLeft)->setRange(-reach, reach);
-  if (pairing->options.mode == TrackingMode::absolute) {
-    for (double t : {tol, -tol}) {
-      auto* limit = new QCPItemStraightLine(plot_);
-      limit->setClipAxisRect(ratio);
-      limit->point1->setAxes(ratio->axis(QCPAxis::atBottom), ratio->axis(QCPAxis::atLeft));
-      limit->point2->setAxes(ratio->axis(QCPAxis::atBottom), ratio->axis(QCPAxis::atLeft));
-      limit->point1->setCoords(lo, t);
-      limit->point2->setCoords(hi, t);
-      limit->setPen(QPen(kLimitColour, 1.5, Qt::DashLine));
+  double band_lo = -tol, band_hi = tol;
+  if (pairing->options.mode == TrackingMode::trimmable) {
+    double d_lo = std::log1p(err.front() / 100), d_hi = d_lo;
+    for (double e : err) {
+      d_lo = std::min(d_lo, std::log1p(e / 100));
+      d_hi = std::max(d_hi, std::log1p(e / 100));
     }
+    const double mid = (d_lo + d_hi) / 2, half = std::log1p(tol / 100) / 2;
+    band_lo = 100 * std::expm1(mid - half);
+    band_hi = 100 * std::expm1(mid + half);
   }
+  double y_lo = band_lo, y_hi = band_hi;
+  for (double e : err) y_lo = std::min(y_lo, e), y_hi = std::max(y_hi, e);
+  const double pad = 0.2 * (y_hi - y_lo);
+  if (pairing->options.mode == TrackingMode::absolute) {
+    const double reach = std::max(-y_lo, y_hi) + pad;
+    ratio->axis(QCPAxis::atLeft)->setRange(-reach, reach);
+  } else {
+    ratio->axis(QCPAxis::atLeft)->setRange(y_lo - pad, y_hi + pad);
+  }
+  for (double t : {band_hi, band_lo}) {
+    auto* limit = new QCPItemStraightLine(plot_);
+    limit->setObjectName(QStringLiteral("toleranceBand"));
+    limit->setClipAxisRect(ratio);
+    limit->point1->setAxes(ratio->axis(QCPAxis::atBottom), ratio->axis(QCPAxis::atLeft));
+    limit->point2->setAxes(ratio->axis(QCPAxis::atBottom), ratio->axis(QCPAxis::atLeft));
+    limit->point1->setCoords(lo, t);
+    limit->point2->setCoords(hi, t);
+    limit->setPen(QPen(kLimitColour, 1.5, Qt::DashLine));
+  }
+  // Lower left: the empty corner of two falling curves.
   auto* legend = new QCPLegend;
-  curves->insetLayout()->addElement(legend, Qt::AlignTop | Qt::AlignRight);
+  curves->insetLayout()->addElement(legend, Qt::AlignBottom | Qt::AlignLeft);
   legend->setLayer(QStringLiteral("legend"));
   legend->addItem(new QCPPlottableLegendItem(legend, plot_->graph(0)));
   legend->addItem(new QCPPlottableLegendItem(legend, plot_->graph(1)));
-  auto* title = new QCPItemText(plot_);
-  title->setClipToAxisRect(false);
-  title->position->setAxisRect(curves);
-  title->position->setType(QCPItemPosition::ptAxisRectRatio);
-  title->position->setCoords(0.02, 0.02);
-  title->setPositionAlignment(Qt::AlignLeft | Qt::AlignTop);
-  title->setText(tr("Pair %1: %2 and %3, error %4 %")
-                     .arg(row + 1)
-                     .arg(QString::fromStdString(p.a_id), QString::fromStdString(p.b_id),
-                          format_number(p.tracking_error_pct, 3)));
+  QString error = format_number(p.tracking_error_pct, 3) + QStringLiteral(" %");
+  if (std::isfinite(p.tracking_error_sigma_pct))
+    error += tr(" ± %1").arg(format_number(p.tracking_error_sigma_pct, 2));
+  title->setText(pairing->options.mode == TrackingMode::absolute
+                     ? tr("Pair %1: %2 and %3\nerror %4, band ±%5 %")
+                           .arg(row + 1)
+                           .arg(QString::fromStdString(p.a_id), QString::fromStdString(p.b_id),
+                                error, format_number(tol, 3))
+                     : tr("Pair %1: %2 and %3\ndrift %4, band %5 % wide (ratio trimmed)")
+                           .arg(row + 1)
+                           .arg(QString::fromStdString(p.a_id), QString::fromStdString(p.b_id),
+                                error, format_number(tol, 3)));
   plot_->replot(QCustomPlot::rpQueuedReplot);
 }
 
