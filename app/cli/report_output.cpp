@@ -40,7 +40,8 @@ std::string write_report(const ReportArgs& args, const ReportContent& c) {
         to_string(p.proof));
     int n = 0;
     for (const auto& pair : p.pairs)
-      section.rows.push_back(report::PairRow{++n, pair.a_id, pair.b_id, pair.tracking_error_pct});
+      section.rows.push_back(report::PairRow{++n, pair.a_id, pair.b_id, pair.tracking_error_pct,
+                                             pair.tracking_error_sigma_pct});
     section.unpaired = p.unpaired.size();
     section.tolerance_pct = p.options.tolerance_pct;
     in.pairs = std::move(section);

@@ -884,7 +884,7 @@ QString MainWindow::writeSummaryTo(const QString& path) {
     pairs.unpaired = pairing->unpaired.size();
     int n = 0;
     for (const auto& p : pairing->pairs) {
-      pairs.rows.push_back({++n, p.a_id, p.b_id, p.tracking_error_pct});
+      pairs.rows.push_back({++n, p.a_id, p.b_id, p.tracking_error_pct, p.tracking_error_sigma_pct});
     }
     input.pairs = std::move(pairs);
   }

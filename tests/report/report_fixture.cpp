@@ -113,7 +113,7 @@ report::PairsSection make_pairs(const JudgedLot& lot, int pairs, double error_st
   for (int k = 0; k < pairs; ++k)
     p.rows.push_back({k + 1, lot.fit.units[2 * static_cast<std::size_t>(k)].id,
                       lot.fit.units[2 * static_cast<std::size_t>(k) + 1].id,
-                      error_step_pct * (k + 1)});
+                      error_step_pct * (k + 1), 0.1 + 0.01 * k});
   p.unpaired = lot.fit.units.size() - 2 * static_cast<std::size_t>(pairs);
   return p;
 }

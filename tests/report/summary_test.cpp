@@ -180,9 +180,12 @@ TEST(LotSummaryPdf, PrintsThePairsPickListWhenGiven) {
   const std::string flat = summary_text(in);
   ASSERT_FALSE(flat.empty());
   EXPECT_NE(flat.find("Matched pairs"), std::string::npos);
+  EXPECT_NE(flat.find("Error % ± sd %"), std::string::npos) << flat;
   for (const auto& r : pairs.rows) {
-    EXPECT_NE(flat.find(r.id_a), std::string::npos);
-    EXPECT_NE(flat.find(r.id_b), std::string::npos);
+    // Each row as read off the page: number, the two ids, the error and its sd beside it.
+    const std::string row =
+        fmt::format("{} {} {} {:.2f} {:.2f}", r.pair_no, r.id_a, r.id_b, r.error_pct, r.sigma_pct);
+    EXPECT_NE(flat.find(row), std::string::npos) << row;
   }
 }
 

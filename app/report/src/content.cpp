@@ -439,13 +439,14 @@ void add_pairs(Content& c, const PairsSection& p) {
                      fixed(errors.front(), 2), fixed(at(0.5), 2), fixed(at(0.9), 2),
                      fixed(errors.back(), 2))});
   }
-  c.pairs_table.headers = {"Pair", "Unit A", "Unit B", "Error %", "Picked"};
-  c.pairs_table.widths = {0.7, 1.6, 1.6, 1.0, 1.0};
-  c.pairs_table.width_fraction = 0.6;
-  c.pairs_table.right_aligned = {true, false, false, true, false};
+  c.pairs_table.headers = {"Pair", "Unit A", "Unit B", "Error %", "± sd %", "Picked"};
+  c.pairs_table.widths = {0.7, 1.6, 1.6, 1.0, 1.0, 1.0};
+  c.pairs_table.width_fraction = 0.7;
+  c.pairs_table.right_aligned = {true, false, false, true, true, false};
   for (const PairRow& r : p.rows)
-    c.pairs_table.rows.push_back(
-        {fmt::format("{}", r.pair_no), r.id_a, r.id_b, fixed(r.error_pct, 2), ""});
+    c.pairs_table.rows.push_back({fmt::format("{}", r.pair_no), r.id_a, r.id_b,
+                                  fixed(r.error_pct, 2),
+                                  std::isfinite(r.sigma_pct) ? fixed(r.sigma_pct, 2) : "", ""});
   c.pairs = p;
 }
 

@@ -45,6 +45,7 @@ struct PairRow {
   std::string id_a;
   std::string id_b;
   double error_pct = kNaN;  // the pair's tracking error, percent
+  double sigma_pct = kNaN;  // its standard uncertainty from the two fits, percent
 };
 
 // The optional pairs section: count, error distribution (drawn from the rows) and pick list.
