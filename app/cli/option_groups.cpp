@@ -217,7 +217,7 @@ void add_pair_options(CLI::App& command, PairArgs& args) {
       ->group(group);
   command
       .add_option("--pairs-csv", args.pairs_csv_path,
-                  "Write the pick list (pair number, the two ids, the error) as CSV here")
+                  "Write the pick list (pair number, the two ids, the error and its sd) as CSV here")
       ->needs(pair)
       ->group(group);
 }
