@@ -216,8 +216,9 @@ void add_pair_options(CLI::App& command, PairArgs& args) {
       ->needs(pair)
       ->group(group);
   command
-      .add_option("--pairs-csv", args.pairs_csv_path,
-                  "Write the pick list (pair number, the two ids, the error and its sd) as CSV here")
+      .add_option(
+          "--pairs-csv", args.pairs_csv_path,
+          "Write the pick list (pair number, the two ids, the error and its sd) as CSV here")
       ->needs(pair)
       ->group(group);
 }
