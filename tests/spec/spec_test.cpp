@@ -183,6 +183,21 @@ TEST(SpecFile, FullInspectionNeedsNoAql) {
   EXPECT_EQ(r.spec->inspection.mode, InspectionMode::full);
 }
 
+// A lot size written as a float is refused by type, however large (20e51 is beyond any
+// integer type; reading it as one was undefined behaviour, found by fuzzing).
+TEST(SpecFile, LotSizeWrittenAsAFloatIsRefusedAtItsLine) {
+  for (const char* value : {"20e51", "500.0"}) {
+    std::string s = kGood;
+    s.replace(s.find("lot_size = 500"), 14, std::string("lot_size = ") + value);
+    const auto r = parse_spec(s, "s.toml");
+    ASSERT_EQ(r.errors.size(), 1u) << value;
+    EXPECT_EQ(r.errors[0].line, 22u);
+    EXPECT_EQ(r.errors[0].message,
+              "inspection.lot_size must be a whole number, found a decimal number")
+        << value;
+  }
+}
+
 TEST(SpecFile, CollectsEveryErrorNotOnlyTheFirst) {
   std::string s = with_line(9, "gamma_min = \"low\"");
   s = std::string(s).replace(s.find("lot_size = 500"), 14, "lot_size = 0");

@@ -313,8 +313,10 @@ void read_inspection(Reader& r, const toml::table& t, Spec& spec) {
     r.error(t.source(), "[inspection] with mode \"sampling\" needs aql (percent nonconforming)");
   }
   if (const toml::node* node = t.get("lot_size")) {
-    auto v = node->value<std::int64_t>();
-    if (!node->is_integer() || !v) {
+    // Only an integer node is read as one: toml++'s value<int64_t>() of a float converts it
+    // unchecked, undefined for 20e51 (found by fuzzing).
+    const auto v = node->is_integer() ? node->value<std::int64_t>() : std::nullopt;
+    if (!v) {
       r.error(node->source(), fmt::format("inspection.lot_size must be a whole number, found {}",
                                           Reader::type_name(*node)));
     } else if (*v < 1) {
