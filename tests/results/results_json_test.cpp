@@ -50,7 +50,8 @@ ResultsDocument sample_document() {
   doc.units = {a, b};
   // Keys a later step adds to the units (the spec's verdicts; docs/statistics.md).
   doc.unit_sections = {
-      Json::object({{"verdict", "conforming"}, {"reasons", Json::array()},
+      Json::object({{"verdict", "conforming"},
+                    {"reasons", Json::array()},
                     {"notes", Json::array({"no dark reading: dark_min_ohm not judged"})}}),
       Json::object({{"verdict", "nonconforming"},
                     {"reasons", Json::array({Json::object({{"characteristic", "fit"},
@@ -257,6 +258,22 @@ TEST(ResultsJson, EscapesTextAndReplacesInvalidUtf8) {
   ASSERT_TRUE(back.ok()) << back.error->message;
   EXPECT_EQ(back.doc.units[0].id, "A\"1\\x\ty");
   EXPECT_EQ(back.doc.units[1].id, "caf\xef\xbf\xbd");
+}
+
+// A member of a unit kept from a later step keeps its key as read, escaped when written
+// (RFC 8259 section 7), so a key holding a CR or a quote reads back (found by fuzzing: the
+// key was written raw, and the document it wrote could not be read).
+TEST(ResultsJson, EscapesTheKeysOfMembersKeptFromAReadDocument) {
+  Json j = Json::parse(to_json_text(sample_document()));
+  j["units"][0]["ln\r10 \"sd\""] = 1.5;
+  const ReadResult once = from_json_text(j.dump());
+  ASSERT_TRUE(once.ok()) << once.error->message;
+  const std::string text = to_json_text(once.doc);
+  const ReadResult again = from_json_text(text);
+  ASSERT_TRUE(again.ok()) << again.error->message;
+  EXPECT_EQ(to_json_text(again.doc), text);
+  ASSERT_FALSE(again.doc.unit_sections.empty());
+  EXPECT_EQ(again.doc.unit_sections[0].at("ln\r10 \"sd\""), 1.5);
 }
 
 TEST(ResultsJson, PlacesASyntaxErrorByLineAndColumn) {

@@ -4,13 +4,12 @@
 
 #include <cmath>
 #include <iterator>
-#include <tuple>
 #include <map>
 #include <set>
-
-#include "photolot/results.h"
+#include <tuple>
 
 #include "../io/json_text.h"
+#include "photolot/results.h"
 
 namespace photolot::results {
 namespace {
@@ -282,6 +281,13 @@ class LineWriter {
     out_.append(k);  // keys are ours: plain ASCII, nothing to escape
     out_.append(std::string_view("\":"));
   }
+  // A key read from a document (a member kept as it was read): escaped like any text.
+  void read_key(std::string_view k) {
+    if (!first_) out_.push_back(',');
+    first_ = false;
+    text(k);
+    out_.push_back(':');
+  }
   void number(double v) {
     if (!std::isfinite(v)) {
       out_.append(std::string_view("null"));
@@ -395,7 +401,7 @@ void append_unit(fmt::memory_buffer& out, const UnitFit& u, bool with_residuals,
   if (extra && extra->is_object()) {
     for (const auto& [k, v] : extra->items()) {
       if (k == "residuals") continue;  // written below, from the unit itself
-      w.key(k);
+      w.read_key(k);
       out.append(v.dump(-1, ' ', false, Json::error_handler_t::replace));
     }
   }
@@ -585,12 +591,35 @@ ReadResult from_json(const Json& j) {
     // Keys of later steps in the units: every key that is not one of the unit's own.
     {
       // The unit's own keys, as append_unit writes them.
-      static const std::set<std::string, std::less<>> kOwnKeys = {
-          "id", "status", "message", "model", "r10_ohm", "r10_ci95_ohm", "gamma", "gamma_ci95",
-          "gamma_10_100", "ln_r10_sd", "gamma_sd", "rms_log_residual", "points", "levels",
-          "outlier_points", "censored_points", "dark_readings", "dof", "cost", "iterations",
-          "aicc_power_law", "aicc_dark_conductance", "dark_conductance_s", "temp_coeff_pct_per_c",
-          "dark_ohm", "dark_censored", "flags", "curve", "residuals"};
+      static const std::set<std::string, std::less<>> kOwnKeys = {"id",
+                                                                  "status",
+                                                                  "message",
+                                                                  "model",
+                                                                  "r10_ohm",
+                                                                  "r10_ci95_ohm",
+                                                                  "gamma",
+                                                                  "gamma_ci95",
+                                                                  "gamma_10_100",
+                                                                  "ln_r10_sd",
+                                                                  "gamma_sd",
+                                                                  "rms_log_residual",
+                                                                  "points",
+                                                                  "levels",
+                                                                  "outlier_points",
+                                                                  "censored_points",
+                                                                  "dark_readings",
+                                                                  "dof",
+                                                                  "cost",
+                                                                  "iterations",
+                                                                  "aicc_power_law",
+                                                                  "aicc_dark_conductance",
+                                                                  "dark_conductance_s",
+                                                                  "temp_coeff_pct_per_c",
+                                                                  "dark_ohm",
+                                                                  "dark_censored",
+                                                                  "flags",
+                                                                  "curve",
+                                                                  "residuals"};
       std::vector<Json> extras(units.size(), Json::object());
       bool any = false;
       for (std::size_t i = 0; i < units.size(); ++i)
