@@ -276,6 +276,21 @@ TEST(ResultsJson, EscapesTheKeysOfMembersKeptFromAReadDocument) {
   EXPECT_EQ(again.doc.unit_sections[0].at("ln\r10 \"sd\""), 1.5);
 }
 
+// A count too large for its field is refused at its path, not read as another number that
+// photolot would then write and refuse itself (found by fuzzing: points = 10797103454).
+TEST(ResultsJson, RefusesACountBeyondItsFieldsType) {
+  Json j = Json::parse(to_json_text(sample_document()));
+  j["units"][1]["points"] = 10797103454LL;
+  const ReadResult r = from_json_text(j.dump());
+  ASSERT_FALSE(r.ok());
+  EXPECT_EQ(r.error->message, "units[1].points: expected a count of at most 2147483647");
+  j["units"][1]["points"] = 2147483647LL;  // the largest an int holds reads and writes back
+  const ReadResult edge = from_json_text(j.dump());
+  ASSERT_TRUE(edge.ok()) << edge.error->message;
+  EXPECT_EQ(edge.doc.units[1].points, 2147483647);
+  EXPECT_TRUE(from_json_text(to_json_text(edge.doc)).ok());
+}
+
 TEST(ResultsJson, PlacesASyntaxErrorByLineAndColumn) {
   ReadResult r = from_json_text("{\n  \"format\": photolot\n}\n");
   ASSERT_FALSE(r.ok());

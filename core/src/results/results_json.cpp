@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <iterator>
+#include <limits>
 #include <map>
 #include <set>
 #include <tuple>
@@ -101,6 +102,9 @@ class Reader {
   T count(const Json& obj, const char* key) const {
     const Json& v = member(obj, key);
     if (!v.is_number_integer() || v.get<std::int64_t>() < 0) throw at(key).wrong("a count");
+    // A count beyond its field's type would come back as another number (found by fuzzing).
+    if (v.get<std::uint64_t>() > static_cast<std::uint64_t>(std::numeric_limits<T>::max()))
+      throw at(key).wrong(fmt::format("a count of at most {}", std::numeric_limits<T>::max()));
     return static_cast<T>(v.get<std::uint64_t>());
   }
   std::string str(const Json& obj, const char* key) const {
@@ -138,7 +142,7 @@ class Reader {
     if (v.size() != 2) throw at(key).wrong("[low, high]");
     return {v[0], v[1]};
   }
-  SchemaError wrong(const char* expected) const {
+  SchemaError wrong(std::string_view expected) const {
     return SchemaError{fmt::format("{}: expected {}", path_, expected)};
   }
 
