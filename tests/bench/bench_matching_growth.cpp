@@ -97,23 +97,9 @@ void build(const Candidates& c, Graph& g, Weights& w, std::int64_t offset) {
           offset - c.cost[k]);
 }
 
-void BM_LemonWeighted(benchmark::State& state) {
-  const Candidates c = make_candidates(std::size_t(state.range(0)));
-  Graph g;
-  Weights w(g);
-  build(c, g, w, c.big());
-  int pairs = 0;
-  for (auto _ : state) {
-    lemon::MaxWeightedMatching<Graph, Weights> m(g, w);
-    m.run();
-    pairs = m.matchingSize();
-    state.counters["blossoms"] = double(m.blossomNum());
-  }
-  state.counters["pairs"] = double(pairs);
-}
-
-void BM_LemonWeightedFlat(benchmark::State& state) {
-  const Candidates c = make_candidates(std::size_t(state.range(0)), 1 + int(state.range(1)));
+// MaxWeightedMatching on the lot of the given shape (make_candidates).
+void run_weighted(benchmark::State& state, int shape) {
+  const Candidates c = make_candidates(std::size_t(state.range(0)), shape);
   Graph g;
   Weights w(g);
   build(c, g, w, c.big());
@@ -127,6 +113,10 @@ void BM_LemonWeightedFlat(benchmark::State& state) {
   state.counters["pairs"] = double(pairs);
   state.counters["edges"] = double(c.edges.size());
 }
+
+void BM_LemonWeighted(benchmark::State& state) { run_weighted(state, 0); }
+
+void BM_LemonWeightedFlat(benchmark::State& state) { run_weighted(state, 1 + int(state.range(1))); }
 
 void BM_LemonFractional(benchmark::State& state) {
   const Candidates c = make_candidates(std::size_t(state.range(0)));
