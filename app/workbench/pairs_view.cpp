@@ -15,6 +15,7 @@
 #include <QTableView>
 #include <QVBoxLayout>
 #include <cmath>
+#include <limits>
 
 #include "display_format.h"
 #include "plot_style.h"
@@ -288,12 +289,16 @@ void PairsView::showPair(int row) {
   const Curve& b = fit_->units[p.b].curve;
   const double lo = pairing->options.lux_lo, hi = pairing->options.lux_hi;
   QVector<double> lux, ra, rb, err;
+  double d_lo = std::numeric_limits<double>::infinity(), d_hi = -d_lo;  // extremes of ln(R_A/R_B)
   for (int i = 0; i <= 60; ++i) {
     const double e = lo * std::pow(hi / lo, i / 60.0);
     lux << e;
     ra << a.ohm(e);
     rb << b.ohm(e);
-    err << 100 * (std::exp(a.ln_ohm(e) - b.ln_ohm(e)) - 1);
+    const double d = a.ln_ohm(e) - b.ln_ohm(e);
+    d_lo = std::min(d_lo, d);
+    d_hi = std::max(d_hi, d);
+    err << 100 * std::expm1(d);
   }
   auto line = [&](QCPAxisRect* rect, const QVector<double>& y, const QColor& colour,
                   const QString& name, Qt::PenStyle style) {
@@ -321,11 +326,6 @@ void PairsView::showPair(int row) {
   const double tol = pairing->options.tolerance_pct;
   double band_lo = -tol, band_hi = tol;
   if (pairing->options.mode == TrackingMode::trimmable) {
-    double d_lo = std::log1p(err.front() / 100), d_hi = d_lo;
-    for (double e : err) {
-      d_lo = std::min(d_lo, std::log1p(e / 100));
-      d_hi = std::max(d_hi, std::log1p(e / 100));
-    }
     const double mid = (d_lo + d_hi) / 2, half = std::log1p(tol / 100) / 2;
     band_lo = 100 * std::expm1(mid - half);
     band_hi = 100 * std::expm1(mid + half);
